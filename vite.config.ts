@@ -1,0 +1,25 @@
+import { defineConfig } from 'vitest/config'
+import vue from '@vitejs/plugin-vue'
+import vuetify from 'vite-plugin-vuetify'
+
+const apiPort = Number(process.env.PORT ?? 3000)
+
+export default defineConfig({
+  plugins: [vue(), vuetify({ autoImport: true })],
+  build: { outDir: 'dist', emptyOutDir: true, chunkSizeWarningLimit: 2000 },
+  server: {
+    proxy: {
+      '/api': `http://127.0.0.1:${apiPort}`,
+      '/socket.io': { target: `http://127.0.0.1:${apiPort}`, ws: true },
+    },
+  },
+  test: {
+    environment: 'node',
+    include: ['tests/**/*.test.ts'],
+    testTimeout: 30_000,
+    hookTimeout: 60_000,
+    maxWorkers: 2,
+    globalSetup: ['tests/helpers/global-setup.ts'],
+    server: { deps: { inline: ['vuetify'] } },
+  },
+})
