@@ -1,0 +1,11 @@
+import { z } from 'zod'
+
+/** The one error shape every API route answers with. */
+export const apiErrorSchema = z.object({
+  error: z.object({
+    code: z.string(),
+    message: z.string(),
+    fields: z.array(z.object({ path: z.string(), message: z.string() })).optional(),
+  }),
+})
+export type ApiError = z.infer<typeof apiErrorSchema>
