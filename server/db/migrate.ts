@@ -1,0 +1,46 @@
+import { readdirSync } from 'node:fs'
+import { dirname, join } from 'node:path'
+import { fileURLToPath, pathToFileURL } from 'node:url'
+import { Umzug, SequelizeStorage } from 'umzug'
+import type { QueryInterface } from 'sequelize'
+import { db } from './sequelize'
+
+const here = dirname(fileURLToPath(import.meta.url))
+export const migrationsDir = join(here, 'migrations')
+
+export type Migration = { up: (ctx: { context: QueryInterface }) => Promise<void>; down: (ctx: { context: QueryInterface }) => Promise<void> }
+
+/** Migrations are numbered files `NNNN-what-it-does.ts` in server/db/migrations, applied in name order. */
+function migrator() {
+  const files = readdirSync(migrationsDir)
+    .filter((f) => /^\d{4}-[a-z0-9-]+\.ts$/.test(f))
+    .sort()
+  const sequelize = db()
+  return new Umzug({
+    migrations: files.map((file) => ({
+      name: file.replace(/\.ts$/, ''),
+      up: async ({ context }) => ((await import(pathToFileURL(join(migrationsDir, file)).href)) as Migration).up({ context }),
+      down: async ({ context }) => ((await import(pathToFileURL(join(migrationsDir, file)).href)) as Migration).down({ context }),
+    })),
+    context: sequelize.getQueryInterface(),
+    storage: new SequelizeStorage({ sequelize, tableName: 'schema_migrations' }),
+    logger: undefined,
+  })
+}
+
+/** Applies every pending migration; safe to call on every start (a lock keeps two processes apart). */
+export async function migrateUp(): Promise<string[]> {
+  const sequelize = db()
+  // Serialise concurrent start-ups (several nodes, or parallel test workers) on an advisory lock.
+  await sequelize.query('SELECT pg_advisory_lock(727001)')
+  try {
+    const done = await migrator().up()
+    return done.map((m) => m.name)
+  } finally {
+    await sequelize.query('SELECT pg_advisory_unlock(727001)')
+  }
+}
+
+export async function migrateDown(to?: string): Promise<void> {
+  await migrator().down(to ? { to } : undefined)
+}

@@ -1,0 +1,41 @@
+import type { ErrorRequestHandler, RequestHandler } from 'express'
+import { MulterError } from 'multer'
+import { AppError } from '../errors'
+import { log } from '../lib/log'
+
+export const notFoundHandler: RequestHandler = (req, _res, next) => {
+  next(new AppError(`No such API route: ${req.method} ${req.path}`, { status: 404, code: 'not_found' }))
+}
+
+const dbDown = (err: unknown) => {
+  const name = (err as { name?: string })?.name ?? ''
+  const code = (err as { parent?: { code?: string }; code?: string })?.parent?.code ?? (err as { code?: string })?.code ?? ''
+  return /Sequelize(Connection|ConnectionRefused|ConnectionAcquireTimeout|HostNotReachable|ConnectionTimedOut)Error/.test(name) ||
+    ['ECONNREFUSED', '57P01', '57P03', 'ECONNRESET'].includes(code)
+}
+
+/** The one error middleware: JSON `{ error: { code, message, fields? } }`, never a stack trace. */
+export const errorHandler: ErrorRequestHandler = (err, req, res, _next) => {
+  let status = 500
+  let body: { code: string; message: string; fields?: { path: string; message: string }[] } = { code: 'internal', message: 'Something went wrong on our side; please try again' }
+  if (err instanceof AppError) {
+    status = err.status
+    body = { code: err.code, message: err.message, ...(err.fields ? { fields: err.fields } : {}) }
+  } else if (err instanceof MulterError) {
+    status = err.code === 'LIMIT_FILE_SIZE' ? 413 : 400
+    body = { code: err.code === 'LIMIT_FILE_SIZE' ? 'too_large' : 'bad_upload', message: err.code === 'LIMIT_FILE_SIZE' ? 'That file is too large' : err.message }
+  } else if ((err as { type?: string })?.type === 'entity.too.large') {
+    status = 413
+    body = { code: 'too_large', message: 'That request is too large' }
+  } else if ((err as { type?: string })?.type === 'entity.parse.failed') {
+    status = 400
+    body = { code: 'invalid_json', message: 'The request body is not valid JSON' }
+  } else if (dbDown(err)) {
+    status = 503
+    body = { code: 'unavailable', message: 'The database is not answering; please try again in a moment' }
+    res.set('Retry-After', '5')
+  }
+  if (status >= 500) log.error('request failed', { method: req.method, path: req.path, status, err: String((err as Error)?.stack ?? err) })
+  if (res.headersSent) return
+  res.status(status).json({ error: body })
+}

@@ -1,0 +1,63 @@
+import { Router, type Request } from 'express'
+import passport from 'passport'
+import { rateLimit } from 'express-rate-limit'
+import { validate } from '../middleware/validate'
+import { requireSignedIn, currentUser } from '../middleware/guards'
+import { csrfToken } from '../middleware/csrf'
+import { loginSchema, registerSchema, type User } from '../../shared/schemas/auth'
+import { registerListener } from '../services/auth'
+import { AppError } from '../errors'
+import { config } from '../config'
+
+/** Regenerates the session (against fixation, OWASP session management) and signs the user in. */
+function signIn(req: Request, user: User): Promise<void> {
+  const token = req.session.csrfToken
+  return new Promise((resolve, reject) => {
+    req.session.regenerate((err) => {
+      if (err) return reject(err)
+      req.session.csrfToken = token
+      req.login(user, { keepSessionInfo: true }, (e) => (e ? reject(e) : resolve()))
+    })
+  })
+}
+
+export function authRouter(): Router {
+  const router = Router()
+  const limiter = rateLimit({
+    windowMs: 15 * 60 * 1000,
+    limit: config().LOGIN_RATE_LIMIT,
+    standardHeaders: 'draft-8',
+    legacyHeaders: false,
+    handler: (_req, _res, next) => next(new AppError('Too many attempts; wait a few minutes and try again', { status: 429, code: 'rate_limited' })),
+  })
+
+  router.get('/csrf', (req, res) => res.json({ token: csrfToken(req) }))
+
+  router.post('/login', limiter, validate(loginSchema), (req, res, next) => {
+    passport.authenticate('local', { session: false }, (err: unknown, user: User | false) => {
+      if (err) return next(err)
+      if (!user) return next(new AppError('That e-mail and password do not match an account', { status: 401, code: 'bad_credentials' }))
+      signIn(req, user).then(() => res.json(user), next)
+    })(req, res, next)
+  })
+
+  router.post('/register', limiter, validate(registerSchema), async (req, res) => {
+    const user = await registerListener(res.locals.body)
+    await signIn(req, user)
+    res.status(201).json(user)
+  })
+
+  router.post('/logout', (req, res, next) => {
+    req.logout((err) => {
+      if (err) return next(err)
+      req.session.destroy((e) => {
+        if (e) return next(e)
+        res.clearCookie('rw.sid')
+        res.status(204).end()
+      })
+    })
+  })
+
+  router.get('/me', requireSignedIn, (req, res) => res.json(currentUser(req)))
+  return router
+}

@@ -1,0 +1,43 @@
+import bcrypt from 'bcryptjs'
+import { findUserByEmail, findUserById, insertUser, toPublicUser } from '../data/users'
+import { AppError, conflict } from '../errors'
+import type { CreateUserInput, RegisterInput, User } from '../../shared/schemas/auth'
+
+/** bcrypt cost factor: 12 rounds in production (OWASP Password Storage Cheat Sheet: at least 10). */
+export const bcryptRounds = () => (process.env.NODE_ENV === 'production' ? 12 : 10)
+
+export const hashPassword = (password: string) => bcrypt.hash(password, bcryptRounds())
+
+// A hash of a random string, compared against when the e-mail is unknown so both paths take the same time.
+const decoyHash = bcrypt.hashSync('roomwright-decoy-password', 10)
+
+/** Checks an e-mail and password; null when either is wrong or the account is switched off. */
+export async function verifyCredentials(email: string, password: string): Promise<User | null> {
+  const user = await findUserByEmail(email)
+  const ok = await bcrypt.compare(password, user?.passwordHash ?? decoyHash)
+  if (!user || !ok || !user.active || !user.passwordHash) return null
+  return toPublicUser(user)
+}
+
+export async function registerListener(input: RegisterInput): Promise<User> {
+  if (await findUserByEmail(input.email)) throw conflict('An account with that e-mail already exists', 'email_taken')
+  return toPublicUser(await insertUser({ email: input.email, name: input.name, role: 'listener', passwordHash: await hashPassword(input.password) }))
+}
+
+/** Supervisors create advisor and supervisor accounts. */
+export async function createStaffUser(input: CreateUserInput): Promise<User> {
+  if (await findUserByEmail(input.email)) throw conflict('An account with that e-mail already exists', 'email_taken')
+  return toPublicUser(await insertUser({ email: input.email, name: input.name, role: input.role, passwordHash: await hashPassword(input.password) }))
+}
+
+/** The user a session points at, or null when it is gone or switched off (the session then ends). */
+export async function sessionUser(id: string): Promise<User | null> {
+  const user = await findUserById(id)
+  if (!user || !user.active) return null
+  return toPublicUser(user)
+}
+
+export function assertRole(user: User | undefined, roles: User['role'][]): asserts user is User {
+  if (!user) throw new AppError('Please sign in first', { status: 401, code: 'signed_out' })
+  if (!roles.includes(user.role)) throw new AppError('Your role may not do that', { status: 403, code: 'forbidden' })
+}
