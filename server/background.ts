@@ -1,5 +1,6 @@
 import type { Server } from 'node:http'
 import type { RequestHandler } from 'express'
+import { log } from './lib/log'
 
 export interface Background {
   stop: () => Promise<void>
@@ -7,10 +8,25 @@ export interface Background {
 
 /**
  * What runs beside the HTTP routes in the same process: live sockets, the job queue and its workers.
- * Each feature registers itself here; a separate worker process can call the same function without HTTP.
+ * A separate worker process can call this with jobs on and no HTTP server.
  */
-export async function startBackground(_opts: { http?: Server; sessionMiddleware?: RequestHandler; jobs: boolean }): Promise<Background> {
+export async function startBackground(opts: { http?: Server; sessionMiddleware?: RequestHandler; jobs: boolean }): Promise<Background> {
   const stops: (() => Promise<void>)[] = []
+  if (opts.http && opts.sessionMiddleware) {
+    const { attachSockets } = await import('./sockets')
+    stops.push(await attachSockets(opts.http, opts.sessionMiddleware))
+  }
+  if (opts.jobs) {
+    await import('./jobs/registry')
+    const { startWorkers, stopJobs } = await import('./jobs/queue')
+    try {
+      await startWorkers()
+    } catch (e) {
+      log.error('job workers did not start', { err: String(e) })
+      throw e
+    }
+    stops.push(stopJobs)
+  }
   return {
     stop: async () => {
       for (const s of stops.reverse()) await s().catch(() => {})
