@@ -1,0 +1,36 @@
+import { userSchema, type LoginInput, type RegisterInput, type User } from '../../shared/schemas/auth'
+import { ApiRequestError, api, forgetCsrfToken } from './client'
+
+/** The signed-in user, or null when there is no session. */
+export async function getMe(): Promise<User | null> {
+  try {
+    return await api.get('/api/auth/me', { schema: userSchema, notifyUnauthorized: false })
+  } catch (error) {
+    if (error instanceof ApiRequestError && error.status === 401) return null
+    throw error
+  }
+}
+
+/** 401 'bad_credentials' for a wrong e-mail or password, 429 when rate-limited. */
+export async function login(input: LoginInput): Promise<User> {
+  const user = await api.post('/api/auth/login', input, { schema: userSchema, notifyUnauthorized: false })
+  forgetCsrfToken()
+  return user
+}
+
+/** Creates a listener account and signs it in; 409 'email_taken', 400 with field paths. */
+export async function register(input: RegisterInput): Promise<User> {
+  const user = await api.post('/api/auth/register', input, { schema: userSchema })
+  forgetCsrfToken()
+  return user
+}
+
+/** Ends the session; a session that had already lapsed (401) counts as signed out. */
+export async function logout(): Promise<void> {
+  try {
+    await api.post<void>('/api/auth/logout', undefined, { notifyUnauthorized: false })
+  } catch (error) {
+    if (!(error instanceof ApiRequestError && error.status === 401)) throw error
+  }
+  forgetCsrfToken()
+}

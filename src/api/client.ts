@@ -1,0 +1,160 @@
+import type { ZodType } from 'zod'
+import { csrfSchema } from '../../shared/schemas/auth'
+import { apiErrorSchema, type ApiError } from '../../shared/schemas/errors'
+
+export type FieldError = NonNullable<ApiError['error']['fields']>[number]
+export type HttpMethod = 'GET' | 'POST' | 'PUT' | 'PATCH' | 'DELETE'
+export type QueryParams = Record<string, string | number | boolean | null | undefined>
+
+/** Every failed request ends as one of these, network failures included (status 0, code 'network'). */
+export class ApiRequestError extends Error {
+  override readonly name = 'ApiRequestError'
+  readonly status: number
+  readonly code: string
+  readonly fields: FieldError[]
+
+  constructor(status: number, code: string, message: string, fields: FieldError[] = []) {
+    super(message)
+    this.status = status
+    this.code = code
+    this.fields = fields
+  }
+
+  /** The server's message for one field path (e.g. 'email'), if it named that field. */
+  fieldMessage(path: string): string | undefined {
+    return this.fields.find((field) => field.path === path)?.message
+  }
+}
+
+export interface RequestOptions<T> {
+  query?: QueryParams
+  /** JSON-serialisable value, or FormData for uploads. */
+  body?: unknown
+  /** Checks the response body at runtime; use the shared zod schema of the answer. */
+  schema?: ZodType<T>
+  signal?: AbortSignal
+  /**
+   * Set false where 401 is an expected answer (the session check, a wrong password)
+   * rather than a lapsed session; otherwise a 401 calls the handler set with onUnauthorized.
+   */
+  notifyUnauthorized?: boolean
+}
+
+let unauthorizedHandler: (() => void) | null = null
+
+/** The auth store registers the one reaction to a lapsed session here. */
+export function onUnauthorized(handler: () => void): void {
+  unauthorizedHandler = handler
+}
+
+let csrfToken: Promise<string> | null = null
+
+/** Drop the cached CSRF token, e.g. after sign-in or sign-out when the session changes. */
+export function forgetCsrfToken(): void {
+  csrfToken = null
+}
+
+function currentCsrfToken(): Promise<string> {
+  csrfToken ??= fetchCsrfToken().catch((error: unknown) => {
+    csrfToken = null
+    throw error
+  })
+  return csrfToken
+}
+
+async function fetchCsrfToken(): Promise<string> {
+  const response = await transmit('/api/auth/csrf', { method: 'GET', headers: { Accept: 'application/json' } })
+  if (!response.ok) throw await errorFrom(response)
+  return (await readBody(response, csrfSchema)).token
+}
+
+const changesState = (method: HttpMethod) => method !== 'GET'
+
+function urlFor(path: string, query?: QueryParams): string {
+  if (!query) return path
+  const params = new URLSearchParams()
+  for (const [key, value] of Object.entries(query)) {
+    if (value !== undefined && value !== null) params.append(key, String(value))
+  }
+  const search = params.toString()
+  return search ? `${path}?${search}` : path
+}
+
+async function transmit(url: string, init: RequestInit): Promise<Response> {
+  try {
+    return await fetch(url, { ...init, credentials: 'same-origin' })
+  } catch (error) {
+    if (error instanceof DOMException && error.name === 'AbortError') throw error
+    throw new ApiRequestError(0, 'network', 'Roomwright could not be reached. Check your connection and try again.')
+  }
+}
+
+async function errorFrom(response: Response): Promise<ApiRequestError> {
+  const parsed = apiErrorSchema.safeParse(await response.json().catch(() => null))
+  if (parsed.success) {
+    const { code, message, fields } = parsed.data.error
+    return new ApiRequestError(response.status, code, message, fields)
+  }
+  return new ApiRequestError(
+    response.status,
+    'unexpected_response',
+    `Roomwright answered with an error (HTTP ${response.status}). Try again in a moment.`,
+  )
+}
+
+async function readBody<T>(response: Response, schema?: ZodType<T>): Promise<T> {
+  if (response.status === 204) return undefined as T
+  const text = await response.text()
+  if (!text) return undefined as T
+  let value: unknown
+  try {
+    value = JSON.parse(text)
+  } catch {
+    throw new ApiRequestError(response.status, 'unexpected_response', 'Roomwright sent an answer this page cannot read. Reload and try again.')
+  }
+  if (!schema) return value as T
+  const checked = schema.safeParse(value)
+  if (!checked.success) {
+    throw new ApiRequestError(response.status, 'unexpected_response', 'Roomwright sent an answer this page does not understand. Reload and try again.')
+  }
+  return checked.data
+}
+
+/** The one way the client talks to the server. Components call the typed functions in src/api/, not this. */
+export async function request<T = unknown>(method: HttpMethod, path: string, options: RequestOptions<T> = {}): Promise<T> {
+  const isForm = typeof FormData !== 'undefined' && options.body instanceof FormData
+  const url = urlFor(path, options.query)
+
+  for (let attempt = 1; ; attempt++) {
+    const headers: Record<string, string> = { Accept: 'application/json' }
+    if (options.body !== undefined && !isForm) headers['Content-Type'] = 'application/json'
+    if (changesState(method)) headers['X-CSRF-Token'] = await currentCsrfToken()
+
+    const response = await transmit(url, {
+      method,
+      headers,
+      body: options.body === undefined ? undefined : isForm ? (options.body as FormData) : JSON.stringify(options.body),
+      signal: options.signal,
+    })
+    if (response.ok) return readBody(response, options.schema)
+
+    const error = await errorFrom(response)
+    if (error.status === 403 && error.code === 'csrf' && changesState(method) && attempt === 1) {
+      forgetCsrfToken()
+      continue
+    }
+    if (error.status === 401 && options.notifyUnauthorized !== false) unauthorizedHandler?.()
+    throw error
+  }
+}
+
+export const api = {
+  get: <T = unknown>(path: string, options?: Omit<RequestOptions<T>, 'body'>) => request<T>('GET', path, options),
+  post: <T = unknown>(path: string, body?: unknown, options?: Omit<RequestOptions<T>, 'body'>) =>
+    request<T>('POST', path, { ...options, body }),
+  put: <T = unknown>(path: string, body?: unknown, options?: Omit<RequestOptions<T>, 'body'>) =>
+    request<T>('PUT', path, { ...options, body }),
+  patch: <T = unknown>(path: string, body?: unknown, options?: Omit<RequestOptions<T>, 'body'>) =>
+    request<T>('PATCH', path, { ...options, body }),
+  delete: <T = unknown>(path: string, options?: Omit<RequestOptions<T>, 'body'>) => request<T>('DELETE', path, options),
+}

@@ -1,0 +1,13 @@
+import '@fontsource/lato/400.css'
+import '@fontsource/lato/700.css'
+import './styles/app.css'
+import { createPinia } from 'pinia'
+import { createApp } from 'vue'
+import App from './App.vue'
+import { initialThemeName } from './composables/useThemePreference'
+import { vuetify } from './plugins/vuetify'
+import { router } from './router'
+
+vuetify.theme.change(initialThemeName())
+
+createApp(App).use(createPinia()).use(vuetify).use(router).mount('#app')

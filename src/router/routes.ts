@@ -1,0 +1,139 @@
+import {
+  mdiAccountGroupOutline,
+  mdiChartBoxOutline,
+  mdiFloorPlan,
+  mdiFolderOutline,
+  mdiTrayFull,
+} from '@mdi/js'
+import type {
+  LocationQueryRaw,
+  RouteLocationRaw,
+  RouteParamsGeneric,
+  RouteParamsRawGeneric,
+  RouteRecordInfo,
+  RouteRecordRaw,
+} from 'vue-router'
+import type { Role } from '../../shared/schemas/auth'
+
+export const routeNames = [
+  'home',
+  'sign-in',
+  'sign-up',
+  'my-cases',
+  'rooms',
+  'dashboard',
+  'queue',
+  'team',
+  'not-found',
+] as const
+
+/** Navigate by these names only: `router.push({ name: 'queue' })`. A mistyped name fails the type check. */
+export type RouteName = (typeof routeNames)[number]
+
+declare module 'vue-router' {
+  interface RouteMeta {
+    /** Page title, shown in the browser tab. */
+    title?: string
+    /** Open to signed-out visitors. Every other route needs a session. */
+    public?: boolean
+    /** Only for signed-out visitors (sign-in, sign-up): a signed-in user goes to their home. */
+    guestOnly?: boolean
+    /** Roles allowed in; absent means any signed-in user. */
+    roles?: readonly Role[]
+    /** Shown in the navigation drawer to the roles above. */
+    nav?: { label: string; icon: string }
+  }
+
+  interface TypesConfig {
+    RouteNamedMap: { [Name in RouteName]: RouteRecordInfo<Name, string, RouteParamsRawGeneric, RouteParamsGeneric> }
+  }
+}
+
+const roleHomes: Record<Role, RouteName> = {
+  listener: 'my-cases',
+  advisor: 'queue',
+  supervisor: 'dashboard',
+}
+
+/** Where a role lands after sign-in and on '/'; signed-out visitors land on sign-in. */
+export function homeRouteFor(role: Role | null | undefined): RouteName {
+  return role ? roleHomes[role] : 'sign-in'
+}
+
+/**
+ * The location of a route whose name is held in a variable. Literal names need no helper
+ * (`{ name: 'queue' }`); a `RouteName`-typed variable goes through here because the typed router
+ * checks one literal name at a time.
+ */
+export function named(name: RouteName, query?: LocationQueryRaw): RouteLocationRaw {
+  return (query ? { name, query } : { name }) as RouteLocationRaw
+}
+
+type NamedRoute = RouteRecordRaw & { name: RouteName }
+
+export function buildRoutes(homeFor: () => RouteName): NamedRoute[] {
+  return [
+    { path: '/', name: 'home', redirect: () => named(homeFor()) },
+    {
+      path: '/sign-in',
+      name: 'sign-in',
+      component: () => import('../pages/SignInPage.vue'),
+      meta: { title: 'Sign in', public: true, guestOnly: true },
+    },
+    {
+      path: '/sign-up',
+      name: 'sign-up',
+      component: () => import('../pages/SignUpPage.vue'),
+      meta: { title: 'Create an account', public: true, guestOnly: true },
+    },
+    {
+      path: '/cases',
+      name: 'my-cases',
+      component: () => import('../pages/ListenerHomePage.vue'),
+      meta: { title: 'My cases', roles: ['listener'], nav: { label: 'My cases', icon: mdiFolderOutline } },
+    },
+    {
+      path: '/rooms',
+      name: 'rooms',
+      component: () => import('../pages/RoomsPage.vue'),
+      meta: { title: 'My rooms', roles: ['listener'], nav: { label: 'My rooms', icon: mdiFloorPlan } },
+    },
+    {
+      path: '/dashboard',
+      name: 'dashboard',
+      component: () => import('../pages/DashboardPage.vue'),
+      meta: { title: 'Dashboard', roles: ['supervisor'], nav: { label: 'Dashboard', icon: mdiChartBoxOutline } },
+    },
+    {
+      path: '/queue',
+      name: 'queue',
+      component: () => import('../pages/QueuePage.vue'),
+      meta: { title: 'Case queue', roles: ['advisor', 'supervisor'], nav: { label: 'Case queue', icon: mdiTrayFull } },
+    },
+    {
+      path: '/team',
+      name: 'team',
+      component: () => import('../pages/TeamPage.vue'),
+      meta: { title: 'Team', roles: ['supervisor'], nav: { label: 'Team', icon: mdiAccountGroupOutline } },
+    },
+    {
+      path: '/:pathMatch(.*)*',
+      name: 'not-found',
+      component: () => import('../pages/NotFoundPage.vue'),
+      meta: { title: 'Page not found', public: true },
+    },
+  ]
+}
+
+/** Routes a role may open from the drawer, in drawer order. */
+export function navigationFor(routes: readonly NamedRoute[], role: Role): { name: RouteName; label: string; icon: string }[] {
+  return routes.flatMap((route) =>
+    route.meta?.nav && route.meta.roles?.includes(role) ? [{ name: route.name, ...route.meta.nav }] : [],
+  )
+}
+
+/** A `redirect` query value that is safe to follow: a path on this site, never another origin. */
+export function safeRedirect(value: unknown): string | null {
+  if (typeof value !== 'string' || !value.startsWith('/') || value.startsWith('//') || value.startsWith('/\\')) return null
+  return value
+}
