@@ -2,6 +2,8 @@ import { Router } from 'express'
 import { authRouter } from './auth'
 import { usersRouter } from './users'
 import { healthRouter } from './health'
+import { roomsRouter } from './rooms'
+import { casesRouter } from './cases'
 
 /** Every API router, mounted under /api. Each feature adds its line here. */
 export function apiRouter(): Router {
@@ -9,5 +11,7 @@ export function apiRouter(): Router {
   router.use('/health', healthRouter())
   router.use('/auth', authRouter())
   router.use('/users', usersRouter())
+  router.use('/rooms', roomsRouter())
+  router.use('/cases', casesRouter())
   return router
 }

@@ -91,3 +91,46 @@ export function distanceToSurface(room: RoomBox, p: Point, surface: Surface): nu
 export function distance(a: Point, b: Point): number {
   return Math.hypot(a.x - b.x, a.y - b.y, a.z - b.z)
 }
+
+/**
+ * A treatment on a surface. Its centre (x, y, z: the two coordinates in the surface's plane are used)
+ * and its size: widthM along the first in-plane axis (front/back walls: y; left/right walls: x;
+ * floor/ceiling: x), heightM along the second (walls: z; floor/ceiling: y). Absorption from
+ * `materialId`, else from a porous layer (`thickness`, `flowResistivity`, `airGap`, metres and Pa·s/m²).
+ */
+export interface Treatment {
+  /** e.g. 'panel', 'bass-trap', 'cloud', 'diffuser' */
+  type: string
+  materialId?: string
+  thickness?: number
+  flowResistivity?: number
+  airGap?: number
+  /** the surface it is mounted on (`wall` and `surface` are synonyms) */
+  wall?: Surface
+  surface?: Surface
+  x?: number
+  y?: number
+  z?: number
+  widthM: number
+  heightM: number
+}
+
+/** Loose furnishings: a material row applied to an area (upholstery: the floor area it occupies), m². */
+export interface Furnishing {
+  materialId: string
+  areaM2: number
+}
+
+/** The surface a treatment sits on. */
+export function treatmentSurface(t: Treatment): Surface | undefined {
+  return t.surface ?? t.wall
+}
+
+/** The in-plane axes of a surface: walls horizontal then vertical, floor/ceiling x then y. */
+export function inPlaneAxes(surface: Surface): [0 | 1 | 2, 0 | 1 | 2] {
+  switch (surfaceAxis(surface).axis) {
+    case 0: return [1, 2]
+    case 1: return [0, 2]
+    default: return [0, 1]
+  }
+}

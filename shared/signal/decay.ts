@@ -220,7 +220,7 @@ export function analyzeDecay(signal: ArrayLike<number>, sampleRate: number, onse
   if (trunc.lateSlopeDbPerS === null || dynamicRangeDb < 15) return empty
   const curve = schroederCurveDb(energy, trunc.crossIndex, trunc.compensation)
   const figure = (key: keyof typeof EVALUATION_RANGES): number | null =>
-    dynamicRangeDb >= MIN_DYNAMIC_RANGE_DB[key] ? fitReverberationTime(curve, sampleRate, ...EVALUATION_RANGES[key]) : null
+    dynamicRangeDb >= MIN_DYNAMIC_RANGE_DB[key] ? fitReverberationTime(curve, sampleRate, EVALUATION_RANGES[key][0], EVALUATION_RANGES[key][1]) : null
   const edt = figure('edt')
   const t20 = figure('t20')
   const t30 = figure('t30')

@@ -44,6 +44,6 @@ export class MeasurementFileError extends Error {
 
 /** Something worth telling the advisor that does not stop the analysis. */
 export interface MeasurementWarning {
-  code: 'clipping' | 'short-decay' | 'low-dynamic-range'
+  code: 'clipping' | 'low-dynamic-range'
   message: string
 }

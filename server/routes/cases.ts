@@ -1,0 +1,55 @@
+import { Router } from 'express'
+import { requireRole, requireSignedIn, currentUser } from '../middleware/guards'
+import { validate } from '../middleware/validate'
+import { createCaseSchema, messageSchema, updateCaseSchema } from '../../shared/schemas/case'
+import { createCase, listMyCases, updateCase } from '../services/cases'
+import { readableCase, isStaff } from '../services/access'
+import { latestTriage } from '../services/triage'
+import { getThread, postMessage } from '../services/messages'
+import { listEvents } from '../data/events'
+import { AppError, notFound } from '../errors'
+import { zodFields } from '../middleware/validate'
+import { queueQuerySchema } from '../../shared/schemas/queue'
+import { queuePage } from '../data/queue'
+import { z } from 'zod'
+
+const afterQuery = z.object({ after: z.coerce.number().int().min(0).optional() })
+
+export function casesRouter(): Router {
+  const router = Router()
+  // Listeners get their own cases; the team gets the queue, paged, sorted and filtered on the server.
+  router.get('/', requireSignedIn, async (req, res) => {
+    const user = currentUser(req)
+    if (user.role === 'listener') {
+      const rows = await listMyCases(user)
+      return res.json({ rows, total: rows.length })
+    }
+    const parsed = queueQuerySchema.safeParse(req.query)
+    if (!parsed.success) throw new AppError('Some filters need another look', { status: 400, code: 'invalid', fields: zodFields(parsed.error.issues) })
+    res.json(await queuePage(user.id, parsed.data))
+  })
+  router.post('/', requireRole('listener'), validate(createCaseSchema), async (req, res) => res.status(201).json(await createCase(currentUser(req), res.locals.body)))
+  router.get('/:id', requireSignedIn, async (req, res) => {
+    const { replyToken: _hidden, ...c } = await readableCase(currentUser(req), String(req.params.id))
+    res.json(c)
+  })
+  router.patch('/:id', requireSignedIn, validate(updateCaseSchema), async (req, res) => {
+    const { replyToken: _hidden, ...c } = await updateCase(currentUser(req), String(req.params.id), res.locals.body) as Awaited<ReturnType<typeof updateCase>> & { replyToken?: string }
+    res.json(c)
+  })
+  router.get('/:id/triage', requireSignedIn, async (req, res) => {
+    await readableCase(currentUser(req), String(req.params.id))
+    const triage = await latestTriage(String(req.params.id))
+    if (!triage) throw notFound('A triage for this case (it is computed when the case is sent)')
+    res.json(triage)
+  })
+  router.get('/:id/events', requireSignedIn, validate(afterQuery, 'query'), async (req, res) => {
+    const user = currentUser(req)
+    await readableCase(user, String(req.params.id))
+    res.json({ events: await listEvents(String(req.params.id), { afterId: res.locals.query.after, includeInternal: isStaff(user) }) })
+  })
+  router.get('/:id/messages', requireSignedIn, async (req, res) => res.json({ messages: await getThread(currentUser(req), String(req.params.id)) }))
+  router.post('/:id/messages', requireSignedIn, validate(messageSchema), async (req, res) =>
+    res.status(201).json(await postMessage(currentUser(req), String(req.params.id), res.locals.body)))
+  return router
+}

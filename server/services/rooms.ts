@@ -1,0 +1,62 @@
+import { addRoomRevision, findRoom, insertRoom, listRooms } from '../data/rooms'
+import { openCasesForRoom, updateCaseFields } from '../data/cases'
+import { insertEvent } from '../data/events'
+import { withTransaction } from '../db/transaction'
+import { badRequest, notFound } from '../errors'
+import { materialIds } from '../../shared/acoustics'
+import type { Room, RoomRecord } from '../../shared/schemas/room'
+import type { User } from '../../shared/schemas/auth'
+import { readableRoom } from './access'
+import { analyseRoom, computeAndStoreTriage } from './triage'
+import { publishCase, publishQueue } from './live'
+
+/** Material ids must come from the engine's materials table (field paths in the 400). */
+export function checkMaterials(room: Room) {
+  const known = new Set(materialIds())
+  const fields: { path: string; message: string }[] = []
+  for (const [surface, id] of Object.entries(room.surfaces)) if (!known.has(id)) fields.push({ path: `surfaces.${surface}`, message: `unknown material "${id}"` })
+  room.furnishings.forEach((f, i) => { if (!known.has(f.materialId)) fields.push({ path: `furnishings.${i}.materialId`, message: `unknown material "${f.materialId}"` }) })
+  room.treatments.forEach((tr, i) => { if (tr.materialId && !known.has(tr.materialId)) fields.push({ path: `treatments.${i}.materialId`, message: `unknown material "${tr.materialId}"` }) })
+  if (fields.length) throw badRequest('Some fields need another look', fields)
+}
+
+export async function createRoom(user: User, room: Room): Promise<RoomRecord> {
+  checkMaterials(room)
+  return insertRoom(user.id, room)
+}
+
+export const listMyRooms = (user: User) => listRooms(user.id)
+
+export async function getRoom(user: User, id: string, revision?: number): Promise<RoomRecord> {
+  return readableRoom(user, id, revision)
+}
+
+/**
+ * Saving a room makes a new revision (old ones stay readable). Every open, submitted case on the room
+ * moves to the new revision and gets a fresh triage; a draft just follows the room.
+ */
+export async function saveRoomRevision(user: User, id: string, room: Room): Promise<RoomRecord> {
+  checkMaterials(room)
+  const existing = await findRoom(id)
+  if (!existing || existing.ownerId !== user.id) throw notFound('That room')
+  const touched: string[] = []
+  const saved = await withTransaction(async (t, afterCommit) => {
+    const saved = await addRoomRevision(id, room, user.id, t)
+    for (const c of await openCasesForRoom(id, t)) {
+      await updateCaseFields(c.id, { roomRevision: saved.revision }, t)
+      if (c.status !== 'draft') {
+        await insertEvent({ caseId: c.id, actorId: user.id, kind: 'room-revised', data: { revision: saved.revision } }, t)
+        await computeAndStoreTriage(c.id, t)
+        touched.push(c.id)
+      }
+    }
+    afterCommit(() => touched.forEach((cid) => { publishCase(cid, { type: 'case.updated', caseId: cid }); publishQueue(cid) }))
+    return saved
+  })
+  return saved
+}
+
+export function previewRoom(room: Room) {
+  checkMaterials(room)
+  return analyseRoom(room)
+}

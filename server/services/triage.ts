@@ -1,0 +1,86 @@
+import { QueryTypes, type Transaction } from 'sequelize'
+import { db } from '../db/sequelize'
+import { findCase, setScore } from '../data/cases'
+import { findRoom } from '../data/rooms'
+import { insertEvent } from '../data/events'
+import { computeRoomAnalysis, ENGINE_VERSION } from '../../shared/acoustics'
+import type { Room } from '../../shared/schemas/room'
+import { notFound } from '../errors'
+
+export interface TriageSnapshot {
+  engineVersion: string
+  roomRevision: number
+  modes: unknown[]
+  modeAnalysis: unknown
+  reflections: unknown[]
+  notches: unknown[]
+  reverberation: unknown
+  flags: { id: string; severity: 'info' | 'warning' | 'problem'; message: string }[]
+  seat: unknown
+  score: number
+  scoreParts: { label: string; points: number }[]
+  computedAt: string
+}
+
+/**
+ * The stored part of a case's queue priority (the queue adds the time the listener has waited, so
+ * that figure stays current without recomputing):
+ *   each 'problem' flag 10 points, each 'warning' 4, each 'info' 1 (capped at 40 in all);
+ *   missing information: no measurement file +6, no photo +3, a description under 80 characters +3.
+ * Queue priority = score + min(hours waiting for us, 96) / 4, so four days of waiting outweighs
+ * about two and a half problems. Weights are ours (no published source): severity first, then waiting.
+ */
+export function triageScore(flags: { severity: string }[], info: { measurements: number; photos: number; descriptionLength: number }) {
+  const sev = flags.reduce((s, f) => s + (f.severity === 'problem' ? 10 : f.severity === 'warning' ? 4 : 1), 0)
+  const parts = [{ label: 'setup flags', points: Math.min(40, sev) }]
+  if (info.measurements === 0) parts.push({ label: 'no measurement yet', points: 6 })
+  if (info.photos === 0) parts.push({ label: 'no photo yet', points: 3 })
+  if (info.descriptionLength < 80) parts.push({ label: 'short description', points: 3 })
+  return { score: parts.reduce((s, p) => s + p.points, 0), parts }
+}
+
+export function analyseRoom(room: Room) {
+  return computeRoomAnalysis(room)
+}
+
+/** Computes the triage for the case's room revision with the engine and stores it with the engine's version. */
+export async function computeAndStoreTriage(caseId: string, t?: Transaction): Promise<TriageSnapshot> {
+  const c = await findCase(caseId, t)
+  if (!c) throw notFound('That case')
+  const room = await findRoom(c.room.id, c.room.revision, t)
+  if (!room) throw notFound('That room')
+  const a = analyseRoom(room.room)
+  const [counts] = await db().query<{ measurements: number; photos: number }>(
+    `SELECT count(*) FILTER (WHERE kind = 'measurement')::int AS measurements, count(*) FILTER (WHERE kind = 'photo')::int AS photos FROM files WHERE case_id = $1`,
+    { bind: [caseId], type: QueryTypes.SELECT, transaction: t },
+  )
+  const { score, parts } = triageScore(a.flags, { ...counts, descriptionLength: c.description.length })
+  const snapshot: TriageSnapshot = {
+    engineVersion: ENGINE_VERSION,
+    roomRevision: room.revision,
+    modes: a.modes,
+    modeAnalysis: a.modeAnalysis,
+    reflections: a.reflections,
+    notches: a.notches,
+    reverberation: a.reverberation,
+    flags: a.flags,
+    seat: a.seat,
+    score,
+    scoreParts: parts,
+    computedAt: new Date().toISOString(),
+  }
+  await db().query('INSERT INTO triage_snapshots (case_id, room_revision, engine_version, body, score) VALUES ($1, $2, $3, $4, $5)', {
+    bind: [caseId, room.revision, ENGINE_VERSION, JSON.stringify(snapshot), score],
+    transaction: t,
+  })
+  await setScore(caseId, score, a.flags.map((f) => f.id), t)
+  await insertEvent({ caseId, actorId: null, kind: 'triage', data: { roomRevision: room.revision, engineVersion: ENGINE_VERSION, score } }, t)
+  return snapshot
+}
+
+export async function latestTriage(caseId: string): Promise<TriageSnapshot | null> {
+  const rows = await db().query<{ body: TriageSnapshot }>('SELECT body FROM triage_snapshots WHERE case_id = $1 ORDER BY id DESC LIMIT 1', {
+    bind: [caseId], type: QueryTypes.SELECT,
+  })
+  return rows[0]?.body ?? null
+}

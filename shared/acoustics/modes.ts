@@ -1,0 +1,553 @@
+import type { Point, RoomBox } from './types'
+import { roomDims, roomSurfaceArea, roomVolume } from './types'
+import { speedOfSound } from './units'
+import { assertCelsius, assertFinite, assertPointInRoom, assertPositive, assertRoom } from './validate'
+
+export interface RoomMode {
+  /** mode indices along length, width, height */
+  n: [number, number, number]
+  kind: 'axial' | 'tangential' | 'oblique'
+  hz: number
+}
+
+const KINDS = ['axial', 'axial', 'tangential', 'oblique'] as const
+
+/**
+ * Every mode of a rigid rectangular room with 0 < hz ≤ maxHz, ascending by frequency
+ * (ties: fewer non-zero indices first, then by indices).
+ * @param room metres
+ * @param opts.maxHz upper limit, Hz; opts.celsius air temperature (default 20 °C)
+ * @see Rayleigh: f = (c/2)·√((nx/Lx)² + (ny/Ly)² + (nz/Lz)²) (Kuttruff, Room Acoustics, ch. 3)
+ */
+export function roomModes(room: RoomBox, opts: { maxHz: number; celsius?: number }): RoomMode[] {
+  assertRoom(room)
+  if (opts === null || typeof opts !== 'object') throw new RangeError('roomModes needs opts with maxHz (Hz)')
+  assertPositive(opts.maxHz, 'maxHz', 'Hz')
+  const c = speedOfSound(opts.celsius ?? 20)
+  const { length: lx, width: ly, height: lz } = room
+  const kMax = (2 * opts.maxHz) / c // √((nx/Lx)² + …) ≤ 2f/c
+  const k2 = kMax * kMax * (1 + 1e-12)
+  const modes: RoomMode[] = []
+  const nxMax = Math.floor(kMax * lx + 1e-9)
+  for (let nx = 0; nx <= nxMax; nx++) {
+    const ax = (nx / lx) ** 2
+    const nyMax = Math.floor(Math.sqrt(Math.max(0, k2 - ax)) * ly + 1e-9)
+    for (let ny = 0; ny <= nyMax; ny++) {
+      const axy = ax + (ny / ly) ** 2
+      if (axy > k2) break
+      const nzMax = Math.floor(Math.sqrt(Math.max(0, k2 - axy)) * lz + 1e-9)
+      for (let nz = nx === 0 && ny === 0 ? 1 : 0; nz <= nzMax; nz++) {
+        const s = axy + (nz / lz) ** 2
+        const hz = (c / 2) * Math.sqrt(s)
+        if (hz <= 0 || hz > opts.maxHz) continue
+        const nonZero = (nx > 0 ? 1 : 0) + (ny > 0 ? 1 : 0) + (nz > 0 ? 1 : 0)
+        modes.push({ n: [nx, ny, nz], kind: KINDS[nonZero], hz })
+      }
+    }
+  }
+  const order = (m: RoomMode) => (m.kind === 'axial' ? 0 : m.kind === 'tangential' ? 1 : 2)
+  modes.sort((a, b) => a.hz - b.hz || order(a) - order(b) || a.n[0] - b.n[0] || a.n[1] - b.n[1] || a.n[2] - b.n[2])
+  return modes
+}
+
+/**
+ * Relative pressure of a mode at a point: the product of the cosine mode shapes, −1…1
+ * (±1 at a peak such as a corner, 0 on a nodal plane).
+ * @see Kuttruff, Room Acoustics, eq. for the rigid rectangular room: ψ = cos(nxπx/Lx)·cos(nyπy/Ly)·cos(nzπz/Lz)
+ */
+export function modePressure(room: RoomBox, mode: RoomMode | readonly [number, number, number], point: Point): number {
+  assertRoom(room)
+  assertPointInRoom(room, point, 'point')
+  const n = Array.isArray(mode) ? mode : (mode as RoomMode).n
+  n.forEach((v, i) => {
+    if (!Number.isInteger(v) || v < 0) throw new RangeError(`mode index ${i} must be a non-negative integer: got ${v}`)
+  })
+  return modeShape(roomDims(room), n as readonly number[], point)
+}
+
+function modeShape(dims: readonly number[], n: readonly number[], p: Point): number {
+  return Math.cos((n[0] * Math.PI * p.x) / dims[0]) * Math.cos((n[1] * Math.PI * p.y) / dims[1]) * Math.cos((n[2] * Math.PI * p.z) / dims[2])
+}
+
+/** Where a point sits on a mode: near a null (|ψ| < 0.316, −10 dB), near a peak (|ψ| > 0.891, −1 dB), or between. */
+export function modePositionClass(pressure: number): 'null' | 'peak' | 'between' {
+  const a = Math.abs(pressure)
+  return a < 0.316 ? 'null' : a > 0.891 ? 'peak' : 'between'
+}
+
+/**
+ * Asymptotic number of modes with frequency below f.
+ * @see Kuttruff, Room Acoustics: N(f) ≈ 4πVf³/(3c³) + πSf²/(4c²) + Lf/(8c), L the total edge length
+ */
+export function modeCountEstimate(room: RoomBox, hz: number, celsius = 20): number {
+  assertRoom(room)
+  assertPositive(hz, 'frequency', 'Hz')
+  const c = speedOfSound(celsius)
+  const v = roomVolume(room)
+  const s = roomSurfaceArea(room)
+  const l = 4 * (room.length + room.width + room.height)
+  return (4 * Math.PI * v * hz ** 3) / (3 * c ** 3) + (Math.PI * s * hz ** 2) / (4 * c ** 2) + (l * hz) / (8 * c)
+}
+
+/**
+ * Modal density dN/df, modes per Hz.
+ * @see Long, Architectural Acoustics 2e, eq. 8.46: dN/df = 4πVf²/c³ + πSf/(2c²) + L/(8c)
+ */
+export function modalDensity(room: RoomBox, hz: number, celsius = 20): number {
+  assertRoom(room)
+  assertPositive(hz, 'frequency', 'Hz')
+  const c = speedOfSound(celsius)
+  const v = roomVolume(room)
+  const s = roomSurfaceArea(room)
+  const l = 4 * (room.length + room.width + room.height)
+  return (4 * Math.PI * v * hz ** 2) / c ** 3 + (Math.PI * s * hz) / (2 * c ** 2) + l / (8 * c)
+}
+
+// ---------------------------------------------------------------------------------------------
+// Distribution analysis
+
+export interface ModeCoincidence {
+  /** mean frequency of the group, Hz */
+  hz: number
+  modes: RoomMode[]
+  /** number of axial modes in the group */
+  axialCount: number
+}
+
+export interface AxialGap {
+  lowHz: number
+  highHz: number
+  gapHz: number
+  low: [number, number, number]
+  high: [number, number, number]
+  /** 'close': < 5 Hz apart, 'wide': > 20 Hz apart (Handbook for Sound Engineers §6.6) */
+  verdict: 'close' | 'wide' | 'ok'
+}
+
+export interface ThirdOctaveModeCount {
+  /** nominal centre, Hz */
+  centerHz: number
+  lowHz: number
+  highHz: number
+  count: number
+  /** modes in the band that belong to a coincidence group */
+  coincidentModes: number
+}
+
+export interface RatioReference {
+  name: string
+  ratio: [number, number, number]
+  /** Euclidean distance in (middle/smallest, largest/smallest) space */
+  distance: number
+  source: string
+}
+
+export interface ModeAnalysis {
+  analysisMaxHz: number
+  coincidenceTolerance: { octaves: number; percent: number }
+  coincidences: ModeCoincidence[]
+  axialGaps: { gaps: AxialGap[]; closeCount: number; wideCount: number; meetsGuidance: boolean }
+  thirdOctaveBands: ThirdOctaveModeCount[]
+  bonello: { passes: boolean; decreasingAtHz: number[]; coincidentAtHz: number[] }
+  ratios: {
+    /** dimensions sorted ascending, normalised to the smallest */
+    normalised: [number, number, number]
+    references: RatioReference[]
+    nearest: RatioReference
+    walker: { passes: boolean; failures: string[] }
+  }
+  modeCount: { atHz: number; counted: number; predicted: number }[]
+}
+
+const NOMINAL_THIRD_OCTAVES = [16, 20, 25, 31.5, 40, 50, 63, 80, 100, 125, 160, 200, 250, 315, 400, 500, 630, 800, 1000]
+
+/**
+ * Analyse the distribution of the room's modes up to `analysisMaxHz` (default 200 Hz).
+ *
+ * Coincidence tolerance (our choice): two modes coincide when the higher lies within
+ * `coincidenceOctaves` (default 1/24 octave, 2.93 %) of the lowest mode of its group — closer than a
+ * 1/12-octave-smoothed measurement can separate them. Groups are anchored on their lowest mode, so
+ * they do not chain.
+ * @see Bonello, JAES 29(9), 1981 (from memory): modes per 1/3 octave must not decrease; coincidences only in bands with ≥ 5 modes
+ * @see Handbook for Sound Engineers (Ballou) §6.6: axial modes no closer than 5 Hz, no more than 20 Hz apart
+ */
+export function analyzeModes(
+  room: RoomBox,
+  opts: { celsius?: number; analysisMaxHz?: number; coincidenceOctaves?: number } = {},
+): ModeAnalysis {
+  assertRoom(room)
+  const celsius = opts.celsius ?? 20
+  assertCelsius(celsius)
+  const maxHz = opts.analysisMaxHz ?? 200
+  assertPositive(maxHz, 'analysisMaxHz', 'Hz')
+  const octaves = opts.coincidenceOctaves ?? 1 / 24
+  assertPositive(octaves, 'coincidenceOctaves')
+  const ratio = 2 ** octaves
+
+  const bands = NOMINAL_THIRD_OCTAVES.map((nominal) => {
+    const k = Math.round(10 * Math.log10(nominal / 1000))
+    const exact = 1000 * 10 ** (k / 10)
+    return { centerHz: nominal, lowHz: exact * 10 ** -0.05, highHz: exact * 10 ** 0.05 }
+  }).filter((b) => b.centerHz <= maxHz)
+  const topHz = Math.max(maxHz, bands.length ? bands[bands.length - 1].highHz : maxHz)
+  const all = roomModes(room, { maxHz: topHz, celsius })
+  const modes = all.filter((m) => m.hz <= maxHz)
+
+  const coincidences: ModeCoincidence[] = []
+  const inGroup = new Set<RoomMode>()
+  for (let i = 0; i < all.length; ) {
+    let j = i + 1
+    while (j < all.length && all[j].hz <= all[i].hz * ratio) j++
+    if (j - i > 1) {
+      const group = all.slice(i, j)
+      group.forEach((m) => inGroup.add(m))
+      if (all[i].hz <= maxHz) {
+        coincidences.push({
+          hz: group.reduce((s, m) => s + m.hz, 0) / group.length,
+          modes: group,
+          axialCount: group.filter((m) => m.kind === 'axial').length,
+        })
+      }
+    }
+    i = j
+  }
+
+  const axial = modes.filter((m) => m.kind === 'axial')
+  const gaps: AxialGap[] = []
+  for (let i = 1; i < axial.length; i++) {
+    const gap = axial[i].hz - axial[i - 1].hz
+    gaps.push({
+      lowHz: axial[i - 1].hz,
+      highHz: axial[i].hz,
+      gapHz: gap,
+      low: axial[i - 1].n,
+      high: axial[i].n,
+      verdict: gap < 5 ? 'close' : gap > 20 ? 'wide' : 'ok',
+    })
+  }
+  const closeCount = gaps.filter((g) => g.verdict === 'close').length
+  const wideCount = gaps.filter((g) => g.verdict === 'wide').length
+
+  const thirdOctaveBands: ThirdOctaveModeCount[] = bands.map((b) => {
+    const inBand = all.filter((m) => m.hz >= b.lowHz && m.hz < b.highHz)
+    return { ...b, count: inBand.length, coincidentModes: inBand.filter((m) => inGroup.has(m)).length }
+  })
+  const decreasingAtHz: number[] = []
+  const coincidentAtHz: number[] = []
+  let started = false
+  for (let i = 0; i < thirdOctaveBands.length; i++) {
+    const b = thirdOctaveBands[i]
+    if (b.count > 0) started = true
+    if (!started) continue
+    if (i > 0 && b.count < thirdOctaveBands[i - 1].count) decreasingAtHz.push(b.centerHz)
+    if (b.coincidentModes > 0 && b.count < 5) coincidentAtHz.push(b.centerHz)
+  }
+
+  const modeCount = [50, 100, 200, 300]
+    .filter((f) => f <= maxHz)
+    .map((f) => ({ atHz: f, counted: all.filter((m) => m.hz <= f).length, predicted: modeCountEstimate(room, f, celsius) }))
+
+  return {
+    analysisMaxHz: maxHz,
+    coincidenceTolerance: { octaves, percent: (ratio - 1) * 100 },
+    coincidences,
+    axialGaps: { gaps, closeCount, wideCount, meetsGuidance: closeCount === 0 && wideCount === 0 },
+    thirdOctaveBands,
+    bonello: { passes: decreasingAtHz.length === 0 && coincidentAtHz.length === 0, decreasingAtHz, coincidentAtHz },
+    ratios: compareRatios(room),
+    modeCount,
+  }
+}
+
+const RATIO_REFERENCES: { name: string; ratio: [number, number, number]; source: string }[] = [
+  { name: 'Bolt', ratio: [1, 1.26, 1.59], source: 'Cox, D\'Antonio & Avis, JAES 52(6), 2004, room sizing' },
+  { name: 'Sepmeyer A', ratio: [1, 1.14, 1.39], source: 'Sepmeyer, JAES 1965 (from memory)' },
+  { name: 'Sepmeyer B', ratio: [1, 1.28, 1.54], source: 'Sepmeyer, JAES 1965 (from memory)' },
+  { name: 'Sepmeyer C', ratio: [1, 1.6, 2.33], source: 'Sepmeyer, JAES 1965 (from memory)' },
+  { name: 'Louden', ratio: [1, 1.4, 1.9], source: 'Louden, Acustica 1971 (from memory)' },
+]
+
+/**
+ * Compare the room's proportions with published ratio guidance.
+ * @see Walker, BBC RD 1993/8 (from memory): 1.1·w/h ≤ l/h ≤ 4.5·w/h − 4, l/h < 3, w/h < 3, no ratio within ±5 % of an integer
+ */
+export function compareRatios(room: RoomBox): ModeAnalysis['ratios'] {
+  assertRoom(room)
+  const [h, w, l] = roomDims(room).slice().sort((a, b) => a - b)
+  const r1 = w / h
+  const r2 = l / h
+  const references = RATIO_REFERENCES.map((r) => ({ ...r, distance: Math.hypot(r1 - r.ratio[1], r2 - r.ratio[2]) }))
+  const nearest = references.reduce((a, b) => (b.distance < a.distance ? b : a))
+  const failures: string[] = []
+  if (r2 < 1.1 * r1) failures.push(`l/h = ${r2.toFixed(2)} is below 1.1·w/h = ${(1.1 * r1).toFixed(2)}`)
+  if (r2 > 4.5 * r1 - 4) failures.push(`l/h = ${r2.toFixed(2)} is above 4.5·w/h − 4 = ${(4.5 * r1 - 4).toFixed(2)}`)
+  if (r2 >= 3) failures.push(`l/h = ${r2.toFixed(2)} is not below 3`)
+  if (r1 >= 3) failures.push(`w/h = ${r1.toFixed(2)} is not below 3`)
+  for (const [name, r] of [['l/h', r2], ['w/h', r1], ['l/w', l / w]] as const) {
+    const nearInt = Math.round(r)
+    if (Math.abs(r - nearInt) <= 0.05 * nearInt) failures.push(`${name} = ${r.toFixed(2)} lies within 5 % of ${nearInt}`)
+  }
+  return { normalised: [1, r1, r2], references, nearest, walker: { passes: failures.length === 0, failures } }
+}
+
+// ---------------------------------------------------------------------------------------------
+// Modal response
+
+/** Reverberation time, seconds: one value, or per band (log-frequency interpolation, held constant beyond the ends). */
+export type Rt60Spec = number | readonly { hz: number; seconds: number }[]
+
+export function rt60At(spec: Rt60Spec, hz: number): number {
+  if (typeof spec === 'number') return spec
+  const bands = spec
+  if (hz <= bands[0].hz) return bands[0].seconds
+  for (let i = 1; i < bands.length; i++) {
+    if (hz <= bands[i].hz) {
+      const t = Math.log(hz / bands[i - 1].hz) / Math.log(bands[i].hz / bands[i - 1].hz)
+      return bands[i - 1].seconds + t * (bands[i].seconds - bands[i - 1].seconds)
+    }
+  }
+  return bands[bands.length - 1].seconds
+}
+
+function assertRt60Spec(spec: Rt60Spec): void {
+  if (typeof spec === 'number') return assertPositive(spec, 'rt60', 's')
+  if (!Array.isArray(spec) || spec.length === 0) throw new RangeError('rt60 must be seconds or a non-empty list of { hz, seconds }')
+  spec.forEach((b, i) => {
+    assertPositive(b.hz, `rt60 band [${i}] hz`, 'Hz')
+    assertPositive(b.seconds, `rt60 band [${i}] seconds`, 's')
+    if (i > 0 && b.hz <= spec[i - 1].hz) throw new RangeError(`rt60 bands must ascend in frequency: ${b.hz} Hz after ${spec[i - 1].hz} Hz`)
+  })
+}
+
+export interface ModalResponseOptions {
+  /** seconds, or per band; sets each mode's damping δ = 3·ln10/T (default 0.4 s) */
+  rt60?: Rt60Spec
+  celsius?: number
+  /** Hz, default 15 */
+  fromHz?: number
+  /** Hz, default 300 */
+  toHz?: number
+  /** frequency points per octave, log-spaced (default 48) */
+  pointsPerOctave?: number
+  /** modes summed up to this frequency, Hz (default 1.5 × toHz) */
+  modalMaxHz?: number
+  /** power smoothing width for the spread, octaves (default 1/6; 0 for none) */
+  smoothingOctaves?: number
+  /** band over which the peak-to-null spread is taken, Hz (default fromHz…toHz) */
+  spreadFromHz?: number
+  spreadToHz?: number
+}
+
+export interface ModalResponse {
+  freqsHz: number[]
+  /** unsmoothed level, dB relative to the mean power over the whole curve */
+  levelDb: number[]
+  /** the same, power-smoothed over `smoothingOctaves` */
+  smoothedDb: number[]
+  /** peak-to-null spread of the smoothed curve within the spread band, dB */
+  spreadDb: number
+  /** peak-to-null spread of the unsmoothed curve within the spread band, dB */
+  rawSpreadDb: number
+  /** standard deviation of the smoothed curve within the spread band, dB */
+  stdDevDb: number
+  spreadBandHz: [number, number]
+  peakHz: number
+  nullHz: number
+  smoothingOctaves: number
+}
+
+/** @internal Frequency grid and per-mode transfer terms shared by the response and the position search. */
+export interface ModalSystem {
+  freqsHz: Float64Array
+  /** mode indices, flattened: nx, ny, nz per mode */
+  n: Int32Array
+  modeCount: number
+  /** H_m(f) = (1/K_m) / (ω² − ω_m² − 2jδ_m·ω_m), frequency-major: [f·M + m] */
+  hRe: Float64Array
+  hIm: Float64Array
+  dims: [number, number, number]
+  opts: Required<Omit<ModalResponseOptions, 'rt60' | 'celsius' | 'modalMaxHz' | 'spreadFromHz' | 'spreadToHz'>> & {
+    spreadFromHz: number
+    spreadToHz: number
+  }
+}
+
+/**
+ * Build the modal transfer terms for a room.
+ * The speaker is taken as flat in free field (constant volume acceleration), so the response is the
+ * bare modal sum; the (0,0,0) pressure mode is left out, as domestic rooms are not sealed.
+ * @see Kuttruff, Room Acoustics, ch. 3: p(r,ω) ∝ Σ ψ_m(r)ψ_m(r₀) / (K_m(ω² − ω_m² − 2jδ_mω_m)), δ = 3·ln10/T
+ */
+export function buildModalSystem(room: RoomBox, options: ModalResponseOptions = {}): ModalSystem {
+  assertRoom(room)
+  const rt60 = options.rt60 ?? 0.4
+  assertRt60Spec(rt60)
+  const celsius = options.celsius ?? 20
+  assertCelsius(celsius)
+  const fromHz = options.fromHz ?? 15
+  const toHz = options.toHz ?? 300
+  assertPositive(fromHz, 'fromHz', 'Hz')
+  assertPositive(toHz, 'toHz', 'Hz')
+  if (toHz <= fromHz) throw new RangeError(`toHz (${toHz} Hz) must lie above fromHz (${fromHz} Hz)`)
+  const ppo = options.pointsPerOctave ?? 48
+  assertPositive(ppo, 'pointsPerOctave')
+  const modalMaxHz = options.modalMaxHz ?? 1.5 * toHz
+  assertPositive(modalMaxHz, 'modalMaxHz', 'Hz')
+  const smoothingOctaves = options.smoothingOctaves ?? 1 / 6
+  assertFinite(smoothingOctaves, 'smoothingOctaves')
+  if (smoothingOctaves < 0) throw new RangeError(`smoothingOctaves must not be negative: got ${smoothingOctaves}`)
+  const spreadFromHz = options.spreadFromHz ?? fromHz
+  const spreadToHz = options.spreadToHz ?? toHz
+  assertPositive(spreadFromHz, 'spreadFromHz', 'Hz')
+  assertPositive(spreadToHz, 'spreadToHz', 'Hz')
+  if (spreadToHz <= spreadFromHz) throw new RangeError(`spreadToHz (${spreadToHz} Hz) must lie above spreadFromHz (${spreadFromHz} Hz)`)
+
+  const nPoints = Math.max(2, Math.round(Math.log2(toHz / fromHz) * ppo) + 1)
+  const freqsHz = new Float64Array(nPoints)
+  for (let i = 0; i < nPoints; i++) freqsHz[i] = fromHz * (toHz / fromHz) ** (i / (nPoints - 1))
+
+  const modes = roomModes(room, { maxHz: modalMaxHz, celsius })
+  const M = modes.length
+  const n = new Int32Array(3 * M)
+  const v = roomVolume(room)
+  const wn2 = new Float64Array(M)
+  const damp = new Float64Array(M) // 2·δ·ω_m
+  const invK = new Float64Array(M)
+  modes.forEach((m, i) => {
+    n[3 * i] = m.n[0]; n[3 * i + 1] = m.n[1]; n[3 * i + 2] = m.n[2]
+    const w = 2 * Math.PI * m.hz
+    wn2[i] = w * w
+    damp[i] = 2 * ((3 * Math.LN10) / rt60At(rt60, m.hz)) * w
+    // K = ∫ψ² dV = V · Π(1/2 for each non-zero index)
+    const nonZero = (m.n[0] > 0 ? 1 : 0) + (m.n[1] > 0 ? 1 : 0) + (m.n[2] > 0 ? 1 : 0)
+    invK[i] = 2 ** nonZero / v
+  })
+  const hRe = new Float64Array(nPoints * M)
+  const hIm = new Float64Array(nPoints * M)
+  for (let f = 0; f < nPoints; f++) {
+    const w = 2 * Math.PI * freqsHz[f]
+    const w2 = w * w
+    const base = f * M
+    for (let i = 0; i < M; i++) {
+      // 1 / (a − jb) = (a + jb) / (a² + b²)
+      const a = w2 - wn2[i]
+      const b = damp[i]
+      const s = invK[i] / (a * a + b * b)
+      hRe[base + i] = a * s
+      hIm[base + i] = b * s
+    }
+  }
+  return {
+    freqsHz,
+    n,
+    modeCount: M,
+    hRe,
+    hIm,
+    dims: roomDims(room),
+    opts: { fromHz, toHz, pointsPerOctave: ppo, smoothingOctaves, spreadFromHz, spreadToHz },
+  }
+}
+
+/** @internal Σ over sources of the mode shapes, per mode. */
+export function sourceWeights(sys: ModalSystem, sources: readonly Point[]): Float64Array {
+  const w = new Float64Array(sys.modeCount)
+  const [lx, ly, lz] = sys.dims
+  for (let i = 0; i < sys.modeCount; i++) {
+    let s = 0
+    for (const p of sources) {
+      s += Math.cos((sys.n[3 * i] * Math.PI * p.x) / lx) * Math.cos((sys.n[3 * i + 1] * Math.PI * p.y) / ly) * Math.cos((sys.n[3 * i + 2] * Math.PI * p.z) / lz)
+    }
+    w[i] = s
+  }
+  return w
+}
+
+/** @internal Power |p|² per frequency for per-mode weights w_m (source shape × receiver shape). */
+export function powerFromWeights(sys: ModalSystem, weights: Float64Array): Float64Array {
+  const F = sys.freqsHz.length
+  const M = sys.modeCount
+  const out = new Float64Array(F)
+  for (let f = 0; f < F; f++) {
+    let re = 0
+    let im = 0
+    const base = f * M
+    for (let i = 0; i < M; i++) {
+      const w = weights[i]
+      if (w === 0) continue
+      re += w * sys.hRe[base + i]
+      im += w * sys.hIm[base + i]
+    }
+    out[f] = re * re + im * im
+  }
+  return out
+}
+
+/** @internal Spread figures of a power curve on the system's grid. */
+export function spreadOfPower(sys: ModalSystem, power: Float64Array): Omit<ModalResponse, 'freqsHz' | 'smoothingOctaves'> {
+  const F = power.length
+  let mean = 0
+  for (let f = 0; f < F; f++) mean += power[f]
+  mean = mean / F || Number.MIN_VALUE
+  const half = Math.round((sys.opts.smoothingOctaves * sys.opts.pointsPerOctave) / 2)
+  const floor = mean * 1e-12
+  const levelDb: number[] = new Array(F)
+  const smoothedDb: number[] = new Array(F)
+  for (let f = 0; f < F; f++) {
+    levelDb[f] = 10 * Math.log10(Math.max(power[f], floor) / mean)
+    let s = 0
+    let k = 0
+    for (let j = Math.max(0, f - half); j <= Math.min(F - 1, f + half); j++) { s += power[j]; k++ }
+    smoothedDb[f] = 10 * Math.log10(Math.max(s / k, floor) / mean)
+  }
+  let lo = Infinity, hi = -Infinity, rawLo = Infinity, rawHi = -Infinity, peakHz = NaN, nullHz = NaN
+  let sum = 0, sum2 = 0, count = 0
+  const { spreadFromHz: a, spreadToHz: b } = sys.opts
+  for (let f = 0; f < F; f++) {
+    const hz = sys.freqsHz[f]
+    if (hz < a * (1 - 1e-9) || hz > b * (1 + 1e-9)) continue
+    const s = smoothedDb[f]
+    if (s > hi) { hi = s; peakHz = hz }
+    if (s < lo) { lo = s; nullHz = hz }
+    rawLo = Math.min(rawLo, levelDb[f])
+    rawHi = Math.max(rawHi, levelDb[f])
+    sum += s; sum2 += s * s; count++
+  }
+  if (count === 0) throw new RangeError(`the spread band ${a}–${b} Hz lies outside the computed range`)
+  const m = sum / count
+  return {
+    levelDb,
+    smoothedDb,
+    spreadDb: hi - lo,
+    rawSpreadDb: rawHi - rawLo,
+    stdDevDb: Math.sqrt(Math.max(0, sum2 / count - m * m)),
+    spreadBandHz: [a, b],
+    peakHz,
+    nullHz,
+  }
+}
+
+/**
+ * Low-frequency response from one or more speakers (driven in phase) to a seat by modal summation,
+ * with each mode damped from the reverberation time, and its peak-to-null spread.
+ * @param source a point or several (e.g. both speakers carrying the same bass), metres
+ * @param receiver the seat, metres
+ * @see Kuttruff, Room Acoustics, ch. 3 (modal sum of the rectangular room)
+ */
+export function modalResponse(room: RoomBox, source: Point | readonly Point[], receiver: Point, opts: ModalResponseOptions = {}): ModalResponse {
+  assertRoom(room)
+  const sources = Array.isArray(source) ? (source as readonly Point[]) : [source as Point]
+  if (sources.length === 0) throw new RangeError('modalResponse needs at least one source')
+  sources.forEach((s, i) => assertPointInRoom(room, s, sources.length > 1 ? `source ${i + 1}` : 'source'))
+  assertPointInRoom(room, receiver, 'receiver')
+  const sys = buildModalSystem(room, opts)
+  return modalResponseFromSystem(sys, sources, receiver)
+}
+
+/** @internal */
+export function modalResponseFromSystem(sys: ModalSystem, sources: readonly Point[], receiver: Point): ModalResponse {
+  const w = sourceWeights(sys, sources)
+  const r = sourceWeights(sys, [receiver])
+  for (let i = 0; i < w.length; i++) w[i] *= r[i]
+  const power = powerFromWeights(sys, w)
+  return { freqsHz: Array.from(sys.freqsHz), smoothingOctaves: sys.opts.smoothingOctaves, ...spreadOfPower(sys, power) }
+}

@@ -1,0 +1,212 @@
+import type { ModalResponseOptions, ModalSystem } from './modes'
+import { buildModalSystem, sourceWeights, spreadOfPower } from './modes'
+import type { Point, RoomBox } from './types'
+import { assertPointInRoom, assertPositive, assertRoom } from './validate'
+
+export interface PositionSearchOptions extends ModalResponseOptions {
+  /** seat positions along the centre line (default 200) */
+  seatPositions?: number
+  /** also scan across the room (y), with this many positions per row (default 0: centre line only) */
+  acrossPositions?: number
+  /** speaker distances from the front wall to try (default 60) */
+  speakerPositions?: number
+  /** seat scan range along x, metres (default: 0.5 m behind the speakers … 0.25 m from the back wall) */
+  seatFromX?: number
+  seatToX?: number
+  /** speaker scan range from the front wall, metres (default 0.2 m … the nearer of 45 % of the length and 1 m in front of the seat) */
+  speakerFromX?: number
+  speakerToX?: number
+}
+
+export interface SpreadAt {
+  point: Point
+  spreadDb: number
+}
+
+export interface PositionSearch {
+  seat: {
+    best: SpreadAt
+    current: SpreadAt
+    /** 38 % of the length from the front wall */
+    at38Percent: SpreadAt
+    /** 38 % of the length from the back wall */
+    at38PercentFromBack: SpreadAt
+    atRoomCentre: SpreadAt
+    scan: { x: number; y: number; spreadDb: number }[]
+  }
+  speakers: {
+    best: { distanceFromFront: number; spreadDb: number }
+    current: { distanceFromFront: number; spreadDb: number }
+    scan: { distanceFromFront: number; spreadDb: number }[]
+  }
+  spreadBandHz: [number, number]
+  smoothingOctaves: number
+}
+
+/**
+ * Grouped transfer: C_g(f) = Σ_{m in g} w_m·H_m(f), grouped by mode index along x (and y when `byY`).
+ * Evaluating a position is then a short sum over groups of cosines (separable mode shapes).
+ */
+function groupTransfer(sys: ModalSystem, weights: Float64Array, byY: boolean) {
+  const keys = new Map<number, number>()
+  const groupOf = new Int32Array(sys.modeCount)
+  const gx: number[] = []
+  const gy: number[] = []
+  for (let i = 0; i < sys.modeCount; i++) {
+    const nx = sys.n[3 * i]
+    const ny = byY ? sys.n[3 * i + 1] : 0
+    const key = nx * 100000 + ny
+    let g = keys.get(key)
+    if (g === undefined) { g = gx.length; keys.set(key, g); gx.push(nx); gy.push(ny) }
+    groupOf[i] = g
+  }
+  const G = gx.length
+  const F = sys.freqsHz.length
+  const M = sys.modeCount
+  const cRe = new Float64Array(F * G)
+  const cIm = new Float64Array(F * G)
+  for (let f = 0; f < F; f++) {
+    const base = f * M
+    const out = f * G
+    for (let i = 0; i < M; i++) {
+      const w = weights[i]
+      if (w === 0) continue
+      cRe[out + groupOf[i]] += w * sys.hRe[base + i]
+      cIm[out + groupOf[i]] += w * sys.hIm[base + i]
+    }
+  }
+  return { G, gx, gy, cRe, cIm }
+}
+
+function powerAt(sys: ModalSystem, grp: ReturnType<typeof groupTransfer>, x: number, y: number | null, power: Float64Array): Float64Array {
+  const [lx, ly] = sys.dims
+  const { G, gx, gy, cRe, cIm } = grp
+  const shape = new Float64Array(G)
+  for (let g = 0; g < G; g++) shape[g] = Math.cos((gx[g] * Math.PI * x) / lx) * (y === null ? 1 : Math.cos((gy[g] * Math.PI * y) / ly))
+  const F = sys.freqsHz.length
+  for (let f = 0; f < F; f++) {
+    let re = 0
+    let im = 0
+    const base = f * G
+    for (let g = 0; g < G; g++) {
+      re += shape[g] * cRe[base + g]
+      im += shape[g] * cIm[base + g]
+    }
+    power[f] = re * re + im * im
+  }
+  return power
+}
+
+function linspace(a: number, b: number, n: number): number[] {
+  if (n <= 1) return [(a + b) / 2]
+  return Array.from({ length: n }, (_, i) => a + ((b - a) * i) / (n - 1))
+}
+
+/**
+ * Scan seat positions along the room's centre line (optionally across it too) and speaker distances
+ * from the front wall for the smallest low-frequency peak-to-null spread (1/6-octave smoothed modal
+ * response, as `modalResponse`). The seat keeps its ear height; the speakers keep their y and height
+ * and all move to the same distance from the front wall.
+ * @param speakers the bass sources, driven in phase, metres
+ * @param seat the current seat, metres
+ */
+export function searchPositions(room: RoomBox, speakers: readonly Point[], seat: Point, opts: PositionSearchOptions = {}): PositionSearch {
+  assertRoom(room)
+  if (!Array.isArray(speakers) || speakers.length === 0) throw new RangeError('the position search needs at least one speaker')
+  speakers.forEach((s, i) => assertPointInRoom(room, s, `speaker ${i + 1}`))
+  assertPointInRoom(room, seat, 'seat')
+  const sys = buildModalSystem(room, opts)
+  return searchPositionsWithSystem(sys, room, speakers, seat, opts)
+}
+
+/** @internal The search on a prepared modal system (shared with the triage). */
+export function searchPositionsWithSystem(
+  sys: ModalSystem, room: RoomBox, speakers: readonly Point[], seat: Point, opts: PositionSearchOptions = {},
+): PositionSearch {
+  const nSeat = opts.seatPositions ?? 200
+  const nAcross = opts.acrossPositions ?? 0
+  const nSpeaker = opts.speakerPositions ?? 60
+  assertPositive(nSeat, 'seatPositions')
+  assertPositive(nSpeaker, 'speakerPositions')
+  const L = room.length
+  const W = room.width
+  const speakerX = Math.max(...speakers.map((s) => s.x))
+  const clampX = (v: number) => Math.min(L, Math.max(0, v))
+  let seatFrom = clampX(opts.seatFromX ?? Math.min(speakerX + 0.5, 0.5 * L))
+  let seatTo = clampX(opts.seatToX ?? L - Math.min(0.25, 0.05 * L))
+  if (seatTo <= seatFrom) { seatFrom = clampX(speakerX); seatTo = L }
+  const centreY = W / 2
+  const src = sourceWeights(sys, speakers)
+  const power = new Float64Array(sys.freqsHz.length)
+  const spread = (p: Float64Array) => spreadOfPower(sys, p).spreadDb
+
+  // seat scan: receiver shape in y and z fixed (centre line, ear height) unless scanning across
+  const lz = sys.dims[2]
+  const ly = sys.dims[1]
+  const seatWeights = (y: number | null) => {
+    const w = new Float64Array(sys.modeCount)
+    for (let i = 0; i < sys.modeCount; i++) {
+      const cy = y === null ? 1 : Math.cos((sys.n[3 * i + 1] * Math.PI * y) / ly)
+      w[i] = src[i] * cy * Math.cos((sys.n[3 * i + 2] * Math.PI * seat.z) / lz)
+    }
+    return w
+  }
+  const scan: { x: number; y: number; spreadDb: number }[] = []
+  const xs = linspace(seatFrom, seatTo, nSeat)
+  if (nAcross > 0) {
+    const grp = groupTransfer(sys, seatWeights(null), true)
+    const ys = linspace(Math.min(0.3, W / 4), W - Math.min(0.3, W / 4), nAcross)
+    for (const y of ys) for (const x of xs) scan.push({ x, y, spreadDb: spread(powerAt(sys, grp, x, y, power)) })
+  } else {
+    const grp = groupTransfer(sys, seatWeights(centreY), false)
+    for (const x of xs) scan.push({ x, y: centreY, spreadDb: spread(powerAt(sys, grp, x, null, power)) })
+  }
+  const bestSeat = scan.reduce((a, b) => (b.spreadDb < a.spreadDb ? b : a))
+  const seatGroupsAtY = (y: number) => groupTransfer(sys, seatWeights(y), false)
+  const at = (x: number, y: number, grp = seatGroupsAtY(y)): SpreadAt => ({
+    point: { x, y, z: seat.z },
+    spreadDb: spread(powerAt(sys, grp, x, null, power)),
+  })
+  const centreGroups = Math.abs(seat.y - centreY) < 1e-12 ? null : seatGroupsAtY(centreY)
+  const currentGroups = seatGroupsAtY(seat.y)
+  const cg = centreGroups ?? currentGroups
+
+  // speaker scan: all speakers at the same distance from the front wall, receiver fixed at the seat
+  const rec = sourceWeights(sys, [seat])
+  const spkWeights = new Float64Array(sys.modeCount)
+  for (let i = 0; i < sys.modeCount; i++) {
+    let s = 0
+    for (const p of speakers) s += Math.cos((sys.n[3 * i + 1] * Math.PI * p.y) / ly) * Math.cos((sys.n[3 * i + 2] * Math.PI * p.z) / lz)
+    spkWeights[i] = s * rec[i]
+  }
+  const spkGroups = groupTransfer(sys, spkWeights, false)
+  let spkFrom = clampX(opts.speakerFromX ?? Math.min(0.2, 0.05 * L))
+  let spkTo = clampX(opts.speakerToX ?? Math.min(0.45 * L, seat.x - 1))
+  if (spkTo <= spkFrom) { spkFrom = 0; spkTo = Math.max(seat.x, 0.05 * L) }
+  const speakerScan = linspace(spkFrom, spkTo, nSpeaker).map((d) => ({
+    distanceFromFront: d,
+    spreadDb: spread(powerAt(sys, spkGroups, d, null, power)),
+  }))
+  const bestSpeaker = speakerScan.reduce((a, b) => (b.spreadDb < a.spreadDb ? b : a))
+  const currentWeights = new Float64Array(sys.modeCount)
+  for (let i = 0; i < sys.modeCount; i++) currentWeights[i] = src[i] * rec[i]
+  const currentGroupsSpk = groupTransfer(sys, currentWeights, false)
+  const currentSpeaker = {
+    distanceFromFront: speakers.reduce((s, p) => s + p.x, 0) / speakers.length,
+    spreadDb: spread(powerAt(sys, currentGroupsSpk, 0, null, power)),
+  }
+
+  return {
+    seat: {
+      best: { point: { x: bestSeat.x, y: bestSeat.y, z: seat.z }, spreadDb: bestSeat.spreadDb },
+      current: at(seat.x, seat.y, currentGroups),
+      at38Percent: at(0.38 * L, centreY, cg),
+      at38PercentFromBack: at(0.62 * L, centreY, cg),
+      atRoomCentre: at(L / 2, centreY, cg),
+      scan,
+    },
+    speakers: { best: bestSpeaker, current: currentSpeaker, scan: speakerScan },
+    spreadBandHz: [sys.opts.spreadFromHz, sys.opts.spreadToHz],
+    smoothingOctaves: sys.opts.smoothingOctaves,
+  }
+}
