@@ -96,7 +96,7 @@ const csqrt = (a: C): C => {
  * @see Oppenheim & Schafer, Discrete-Time Signal Processing 3e, §7.2 (bilinear transform) and §7.4 (frequency transformations)
  */
 export function butterworthBandpass(lowHz: number, highHz: number, sampleRate: number, order = 3): Biquad[] {
-  if (!(sampleRate >= 8000)) throw new RangeError(`sample rate must be at least 8000 Hz: got ${sampleRate}`)
+  if (!(sampleRate > 0)) throw new RangeError(`sample rate must be positive: got ${sampleRate}`)
   if (!(lowHz > 0 && highHz > lowHz && highHz < sampleRate / 2)) {
     throw new RangeError(`band ${lowHz}–${highHz} Hz must lie between 0 Hz and the Nyquist frequency ${sampleRate / 2} Hz`)
   }
@@ -147,18 +147,35 @@ export function sosMagnitude(sections: Biquad[], hz: number, sampleRate: number)
 
 /** Runs x through a biquad cascade (causal, zero initial state). Does not mutate x. */
 export function filterSos(x: ArrayLike<number>, sections: Biquad[]): Float64Array {
-  const y = Float64Array.from(x as ArrayLike<number>)
-  for (const { b0, b1, b2, a1, a2 } of sections) {
-    let z1 = 0
-    let z2 = 0
-    for (let i = 0; i < y.length; i++) {
-      const xi = y[i]
-      const yi = b0 * xi + z1
-      z1 = b1 * xi - a1 * yi + z2
-      z2 = b2 * xi - a2 * yi
-      y[i] = yi
+  const y = new Float64Array(x.length)
+  let i0 = 0
+  // sections in groups of up to three per pass over the signal, so each sample stays in registers
+  for (let s = 0; s < sections.length; s += 3) {
+    const src: ArrayLike<number> = i0 === 0 ? x : y
+    i0 = 1
+    const a = sections[s]
+    const b = sections[s + 1] ?? { b0: 1, b1: 0, b2: 0, a1: 0, a2: 0 }
+    const c = sections[s + 2] ?? { b0: 1, b1: 0, b2: 0, a1: 0, a2: 0 }
+    const { b0: ab0, b1: ab1, b2: ab2, a1: aa1, a2: aa2 } = a
+    const { b0: bb0, b1: bb1, b2: bb2, a1: ba1, a2: ba2 } = b
+    const { b0: cb0, b1: cb1, b2: cb2, a1: ca1, a2: ca2 } = c
+    let a1 = 0, a2 = 0, b1 = 0, b2 = 0, c1 = 0, c2 = 0
+    const n = x.length
+    for (let i = 0; i < n; i++) {
+      const xi = src[i]
+      const ya = ab0 * xi + a1
+      a1 = ab1 * xi - aa1 * ya + a2
+      a2 = ab2 * xi - aa2 * ya
+      const yb = bb0 * ya + b1
+      b1 = bb1 * ya - ba1 * yb + b2
+      b2 = bb2 * ya - ba2 * yb
+      const yc = cb0 * yb + c1
+      c1 = cb1 * yb - ca1 * yc + c2
+      c2 = cb2 * yb - ca2 * yc
+      y[i] = yc
     }
   }
+  if (sections.length === 0) y.set(x as ArrayLike<number>)
   return y
 }
 

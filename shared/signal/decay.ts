@@ -127,18 +127,19 @@ export function lundebyTruncation(energy: ArrayLike<number>, sampleRate: number)
 
 /**
  * Backward-integrated decay curve, dB re its value at the start, up to the crossing
- * point (inclusive), plus the compensation for the truncated tail.
+ * point (inclusive), plus the compensation for the truncated tail; every stride-th
+ * sample of it (the curve is smooth, so a fit on a subsampled curve is the same fit).
  * @see Schroeder, "New method of measuring reverberation time", JASA 37 (1965) 409–412
  */
-export function schroederCurveDb(energy: ArrayLike<number>, crossIndex: number, compensation = 0): Float64Array {
-  const curve = new Float64Array(crossIndex + 1)
+export function schroederCurveDb(energy: ArrayLike<number>, crossIndex: number, compensation = 0, stride = 1): Float64Array {
+  const curve = new Float64Array(Math.floor(crossIndex / stride) + 1)
   let acc = compensation
   for (let i = crossIndex; i >= 0; i--) {
     acc += energy[i]
-    curve[i] = acc
+    if (i % stride === 0) curve[i / stride] = acc
   }
   const total = curve[0]
-  for (let i = 0; i <= crossIndex; i++) curve[i] = 10 * Math.log10(curve[i] / total + 1e-300)
+  for (let i = 0; i < curve.length; i++) curve[i] = 10 * Math.log10(curve[i] / total + 1e-300)
   return curve
 }
 
@@ -218,9 +219,12 @@ export function analyzeDecay(signal: ArrayLike<number>, sampleRate: number, onse
     truncationMs: (trunc.crossIndex / sampleRate) * 1000, curve: { timesMs: [], levelsDb: [] },
   }
   if (trunc.lateSlopeDbPerS === null || dynamicRangeDb < 15) return empty
-  const curve = schroederCurveDb(energy, trunc.crossIndex, trunc.compensation)
+  // fit on the curve at about 8 kHz: plenty for the slopes, a sixth of the logarithms at 48 kHz
+  const stride = Math.max(1, Math.floor(sampleRate / 8000))
+  const curveRate = sampleRate / stride
+  const curve = schroederCurveDb(energy, trunc.crossIndex, trunc.compensation, stride)
   const figure = (key: keyof typeof EVALUATION_RANGES): number | null =>
-    dynamicRangeDb >= MIN_DYNAMIC_RANGE_DB[key] ? fitReverberationTime(curve, sampleRate, EVALUATION_RANGES[key][0], EVALUATION_RANGES[key][1]) : null
+    dynamicRangeDb >= MIN_DYNAMIC_RANGE_DB[key] ? fitReverberationTime(curve, curveRate, EVALUATION_RANGES[key][0], EVALUATION_RANGES[key][1]) : null
   const edt = figure('edt')
   const t20 = figure('t20')
   const t30 = figure('t30')
@@ -241,7 +245,7 @@ export function analyzeDecay(signal: ArrayLike<number>, sampleRate: number, onse
   const timesMs: number[] = []
   const levelsDb: number[] = []
   for (let i = 0; i < curve.length; i += step) {
-    timesMs.push(round((i / sampleRate) * 1000, 2))
+    timesMs.push(round((i / curveRate) * 1000, 2))
     levelsDb.push(round(curve[i], 2))
   }
   return {

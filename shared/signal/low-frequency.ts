@@ -37,10 +37,14 @@ export interface LowFrequencyDecay {
  * window). The band decays use time-reversed filtering, so the band filter's own
  * ringing falls before the onset instead of lengthening the decay.
  * @see Rasmussen, Rindel & Henriksen, JAES 39(1/2), 1991 (time-reversed filtering for short low-frequency decays; from memory)
+ * Only the first 4 s after the onset are used.
  * @param onsetIndex the direct sound's onset at the original sample rate
  */
 export function lowFrequencyDecay(samples: ArrayLike<number>, sampleRate: number, onsetIndex: number): LowFrequencyDecay {
-  const dec = decimateForLowFrequencies(samples, sampleRate)
+  // 4 s after the onset holds any domestic room's low-frequency decay and keeps the low-pass cheap
+  const end = Math.min(samples.length, onsetIndex + 4 * sampleRate)
+  const head = 'subarray' in samples ? (samples as Float64Array).subarray(0, end) : Array.from(samples).slice(0, end)
+  const dec = decimateForLowFrequencies(head, sampleRate)
   const onset = Math.floor(onsetIndex / dec.factor)
   const fsD = dec.sampleRate
   const freqs = logFrequencies(15, 300, 48)
