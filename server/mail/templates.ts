@@ -1,0 +1,248 @@
+import { readFileSync } from 'node:fs'
+import { fileURLToPath } from 'node:url'
+import { JSDOM } from 'jsdom'
+import createDOMPurify, { type DOMPurify } from 'dompurify'
+import { Marked } from 'marked'
+import { z } from 'zod'
+import { config } from '../config'
+
+/**
+ * E-mail templates: one HTML and one plain-text file per kind in templates/, wrapped in
+ * templates/layout.{html,txt}. The first line of each .txt file is `Subject: …`.
+ *
+ * Placeholders: `{{name}}` inserts a value (HTML-escaped in .html files), `{{{name}}}` inserts HTML
+ * produced on this server (sanitised markdown, our own fragments) unescaped. A placeholder without a
+ * value is an error, so a typo in a template cannot send a half-filled e-mail.
+ */
+
+export const EMAIL_KINDS = ['reply', 'info-requested', 'status-changed', 'plan-sent', 'invitation', 'welcome'] as const
+export type EmailKind = (typeof EMAIL_KINDS)[number]
+
+/** Sent even when the user turned optional e-mails off. */
+export const ESSENTIAL_KINDS: ReadonlySet<EmailKind> = new Set(['reply', 'info-requested', 'plan-sent', 'invitation'])
+/** About one case: carry the case title and link, a per-case Reply-To, and the reply hint. */
+export const CASE_KINDS: ReadonlySet<EmailKind> = new Set(['reply', 'info-requested', 'status-changed', 'plan-sent'])
+
+/** The line above which a listener writes; the quote stripper cuts there (server/mail/inbound.ts). */
+export const REPLY_MARKER = 'Write your answer above this line to add it to the case'
+
+const name = z.string().trim().min(1).max(200)
+const caseFields = { recipientName: name, caseTitle: z.string().trim().min(1).max(300), caseId: z.string().min(1).max(100) }
+const markdown = z.string().max(100_000)
+
+export const emailVarsSchemas = {
+  reply: z.object({ ...caseFields, advisorName: name, body: markdown.min(1) }),
+  'info-requested': z.object({ ...caseFields, advisorName: name, body: markdown.min(1) }),
+  'status-changed': z.object({ ...caseFields, status: z.enum(['submitted', 'closed', 'reopened']), note: z.string().max(2000).optional() }),
+  'plan-sent': z.object({ ...caseFields, advisorName: name, summary: markdown.optional() }),
+  invitation: z.object({
+    recipientName: name,
+    inviterName: name,
+    role: z.enum(['listener', 'advisor', 'supervisor']),
+    setPasswordUrl: z.string().url().refine((u) => /^https?:\/\//i.test(u), 'the link must be http(s)'),
+    expiresAt: z.coerce.date(),
+  }),
+  welcome: z.object({ recipientName: name }),
+} satisfies Record<EmailKind, z.ZodType>
+
+export type EmailVars<K extends EmailKind> = z.input<(typeof emailVarsSchemas)[K]>
+export interface RenderedEmail { subject: string; html: string; text: string }
+
+/** PUBLIC_URL, or http://localhost:PORT when none is configured; no trailing slash. */
+export function publicBaseUrl(): string {
+  const c = config()
+  return (c.PUBLIC_URL ?? `http://localhost:${c.PORT}`).replace(/\/+$/, '')
+}
+export const caseUrl = (caseId: string) => `${publicBaseUrl()}/cases/${encodeURIComponent(caseId)}`
+
+// ---------------------------------------------------------------- markdown
+
+const marked = new Marked({ gfm: true, breaks: true, async: false })
+let purifier: DOMPurify | undefined
+function purify(): DOMPurify {
+  if (!purifier) {
+    const p = createDOMPurify(new JSDOM('').window as unknown as Parameters<typeof createDOMPurify>[0])
+    p.addHook('afterSanitizeAttributes', (node) => {
+      if (node.tagName === 'A' && node.hasAttribute('href')) {
+        node.setAttribute('rel', 'noopener noreferrer nofollow')
+        node.setAttribute('target', '_blank')
+      }
+    })
+    purifier = p
+  }
+  return purifier
+}
+
+/**
+ * The one server-side markdown renderer (messages in the API and in e-mails): marked (GFM, line
+ * breaks kept), then DOMPurify. No scripts, styles, forms, frames, event-handler attributes or
+ * inline styles survive; links and images may only point at http(s), mailto, in-page anchors or
+ * same-site paths.
+ */
+export function renderMarkdownSafe(md: string): string {
+  const raw = marked.parse(md ?? '') as string
+  return purify().sanitize(raw, {
+    USE_PROFILES: { html: true },
+    FORBID_TAGS: ['style', 'form', 'input', 'button', 'textarea', 'select', 'option', 'iframe', 'frame', 'object', 'embed', 'base', 'link', 'meta'],
+    FORBID_ATTR: ['style', 'srcset', 'formaction'],
+    ALLOWED_URI_REGEXP: /^(?:https?:|mailto:|#|\/(?!\/))/i,
+  }) as string
+}
+
+// ---------------------------------------------------------------- placeholders
+
+const ESC: Record<string, string> = { '&': '&amp;', '<': '&lt;', '>': '&gt;', '"': '&quot;', "'": '&#39;' }
+export const escapeHtml = (s: string) => s.replace(/[&<>"']/g, (c) => ESC[c])
+
+/** Fills `{{x}}` (escaped in html mode) and `{{{x}}}` (raw) placeholders. */
+export function fillTemplate(template: string, values: Record<string, string>, mode: 'html' | 'text', templateName = 'template'): string {
+  return template.replace(/\{\{\{\s*([\w]+)\s*\}\}\}|\{\{\s*([\w]+)\s*\}\}/g, (_m, raw: string | undefined, escaped: string | undefined) => {
+    const key = (raw ?? escaped)!
+    const v = values[key]
+    if (v === undefined) throw new Error(`${templateName} uses {{${key}}} but no value was given for it`)
+    return raw !== undefined || mode === 'text' ? v : escapeHtml(v)
+  })
+}
+
+const templatesDir = fileURLToPath(new URL('../../templates/', import.meta.url))
+const cache = new Map<string, string>()
+function templateFile(file: string): string {
+  let t = cache.get(file)
+  if (t === undefined) {
+    t = readFileSync(templatesDir + file, 'utf8')
+    if (process.env.NODE_ENV === 'production') cache.set(file, t)
+  }
+  return t
+}
+
+// ---------------------------------------------------------------- per-kind values
+
+const STATUS_WORDS = {
+  submitted: {
+    headline: 'We have your case',
+    explanation: 'an advisor will look at the room and anything you measured, and you will hear from us here and by e-mail.',
+  },
+  closed: {
+    headline: 'Your case is closed',
+    explanation: 'we hope the room sounds better. If something is still not right, reply to this e-mail or reopen the case.',
+  },
+  reopened: {
+    headline: 'Your case is open again',
+    explanation: 'an advisor will pick it up where it was left.',
+  },
+} as const
+
+const ROLE_LABEL = { listener: 'listener', advisor: 'advisor', supervisor: 'supervisor' } as const
+
+function kindValues(kind: EmailKind, v: Record<string, unknown>): { values: Record<string, string>; preheader: string } {
+  const s = (k: string) => String(v[k] ?? '')
+  const base: Record<string, string> = { recipientName: s('recipientName') }
+  if (CASE_KINDS.has(kind)) Object.assign(base, { caseTitle: s('caseTitle'), caseUrl: caseUrl(s('caseId')) })
+  switch (kind) {
+    case 'reply':
+    case 'info-requested':
+      return {
+        values: { ...base, advisorName: s('advisorName'), body: s('body').trim(), bodyHtml: renderMarkdownSafe(s('body')) },
+        preheader: excerpt(s('body')),
+      }
+    case 'status-changed': {
+      const words = STATUS_WORDS[v.status as keyof typeof STATUS_WORDS]
+      const note = s('note').trim()
+      return {
+        values: {
+          ...base,
+          ...words,
+          note,
+          noteHtml: note ? `<p style="margin:0 0 16px;padding:8px 12px;background:#f8f4ee;border-radius:4px;">${escapeHtml(note)}</p>` : '',
+        },
+        preheader: words.headline,
+      }
+    }
+    case 'plan-sent': {
+      const summary = s('summary').trim()
+      return {
+        values: {
+          ...base,
+          advisorName: s('advisorName'),
+          summary,
+          summaryHtml: summary ? `<div style="margin:0 0 20px;padding:4px 16px;border-left:3px solid #0f4c4f;background:#f8f4ee;">${renderMarkdownSafe(summary)}</div>` : '',
+        },
+        preheader: summary ? excerpt(summary) : 'Your treatment plan is ready',
+      }
+    }
+    case 'invitation': {
+      const expires = v.expiresAt as Date
+      return {
+        values: {
+          ...base,
+          inviterName: s('inviterName'),
+          roleLabel: ROLE_LABEL[v.role as keyof typeof ROLE_LABEL],
+          setPasswordUrl: s('setPasswordUrl'),
+          expiresText: expires.toUTCString().replace(/:\d\d GMT$/, ' UTC'),
+        },
+        preheader: 'Choose a password to sign in',
+      }
+    }
+    case 'welcome':
+      return { values: { ...base, appUrl: `${publicBaseUrl()}/` }, preheader: 'Describe your room and see its modes at once' }
+  }
+}
+
+function excerpt(md: string, max = 120): string {
+  const plain = md.replace(/[#>*_`~[\]()!|-]+/g, ' ').replace(/\s+/g, ' ').trim()
+  return plain.length > max ? `${plain.slice(0, max - 1)}…` : plain
+}
+
+/**
+ * Renders one e-mail of `kind` from its vars (validated: a missing or wrong var throws a TypeError
+ * naming it). Case kinds need `caseId` and `caseTitle` and link to the case.
+ */
+export function renderEmail<K extends EmailKind>(kind: K, vars: EmailVars<K>): RenderedEmail {
+  const schema = emailVarsSchemas[kind] as z.ZodType
+  if (!schema) throw new TypeError(`there is no e-mail template for kind "${kind}"`)
+  const parsed = schema.safeParse(vars)
+  if (!parsed.success) {
+    const what = parsed.error.issues.map((i) => `${i.path.join('.') || '(vars)'}: ${i.message}`).join('; ')
+    throw new TypeError(`the ${kind} e-mail cannot be rendered: ${what}`)
+  }
+  const { values, preheader } = kindValues(kind, parsed.data as Record<string, unknown>)
+
+  const txtSource = templateFile(`${kind}.txt`).replace(/\r\n?/g, '\n')
+  const m = /^Subject:[ \t]*(.*)\n\n?/.exec(txtSource)
+  if (!m) throw new Error(`templates/${kind}.txt must start with a "Subject: …" line`)
+  const subject = fillTemplate(m[1], values, 'text', `templates/${kind}.txt`).replace(/[\r\n\t]+/g, ' ').replace(/\s{2,}/g, ' ').trim().slice(0, 300)
+
+  const isCase = CASE_KINDS.has(kind)
+  const essential = ESSENTIAL_KINDS.has(kind)
+  const footer = essential
+    ? 'You receive this because it concerns your Roomwright account or case; it is sent even when optional e-mails are turned off.'
+    : 'You can turn off optional e-mails like this one in your Roomwright account settings.'
+  const hintText = 'Reply to this e-mail to answer in the case; your answer lands in the case thread.'
+
+  const htmlContent = fillTemplate(templateFile(`${kind}.html`), values, 'html', `templates/${kind}.html`)
+  const html = fillTemplate(
+    templateFile('layout.html'),
+    {
+      subject,
+      preheader,
+      content: htmlContent,
+      footer,
+      replyMarker: isCase ? `<p style="margin:0 0 12px;font-family:Helvetica,Arial,sans-serif;font-size:11px;color:#9a9186;">— ${escapeHtml(REPLY_MARKER)} —</p>` : '',
+      replyHint: isCase ? `<p style="margin:0 0 8px;color:#0f4c4f;"><strong>${escapeHtml(hintText)}</strong></p>` : '',
+    },
+    'html',
+    'templates/layout.html',
+  )
+
+  const textContent = fillTemplate(txtSource.slice(m[0].length), values, 'text', `templates/${kind}.txt`).trim()
+  const text = fillTemplate(
+    templateFile('layout.txt'),
+    { content: textContent, footer, replyMarker: isCase ? `— ${REPLY_MARKER} —\n\n` : '', replyHint: isCase ? `${hintText}\n\n` : '' },
+    'text',
+    'templates/layout.txt',
+  )
+    .replace(/\n{3,}/g, '\n\n')
+    .trimStart()
+
+  return { subject, html, text }
+}
