@@ -4,6 +4,7 @@ import { usersRouter } from './users'
 import { healthRouter } from './health'
 import { roomsRouter } from './rooms'
 import { casesRouter } from './cases'
+import { savedFiltersRouter, snippetsRouter } from './team'
 
 /** Every API router, mounted under /api. Each feature adds its line here. */
 export function apiRouter(): Router {
@@ -13,5 +14,7 @@ export function apiRouter(): Router {
   router.use('/users', usersRouter())
   router.use('/rooms', roomsRouter())
   router.use('/cases', casesRouter())
+  router.use('/snippets', snippetsRouter())
+  router.use('/saved-filters', savedFiltersRouter())
   return router
 }
