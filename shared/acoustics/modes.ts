@@ -329,7 +329,7 @@ export interface ModalResponseOptions {
   toHz?: number
   /** frequency points per octave, log-spaced (default 48) */
   pointsPerOctave?: number
-  /** modes summed up to this frequency, Hz (default 1.5 × toHz) */
+  /** modes summed up to this frequency, Hz (default 1.25 × toHz; higher modes change the spread by well under 1 dB) */
   modalMaxHz?: number
   /** power smoothing width for the spread, octaves (default 1/6; 0 for none) */
   smoothingOctaves?: number
@@ -391,7 +391,7 @@ export function buildModalSystem(room: RoomBox, options: ModalResponseOptions = 
   if (toHz <= fromHz) throw new RangeError(`toHz (${toHz} Hz) must lie above fromHz (${fromHz} Hz)`)
   const ppo = options.pointsPerOctave ?? 48
   assertPositive(ppo, 'pointsPerOctave')
-  const modalMaxHz = options.modalMaxHz ?? 1.5 * toHz
+  const modalMaxHz = options.modalMaxHz ?? 1.25 * toHz
   assertPositive(modalMaxHz, 'modalMaxHz', 'Hz')
   const smoothingOctaves = options.smoothingOctaves ?? 1 / 6
   assertFinite(smoothingOctaves, 'smoothingOctaves')
@@ -527,6 +527,32 @@ export function spreadOfPower(sys: ModalSystem, power: Float64Array): Omit<Modal
 }
 
 /**
+ * @internal Smoothed peak-to-null spread only (no per-point logarithms): the figure the position search
+ * minimises, identical to `spreadOfPower(...).spreadDb`.
+ */
+export function spreadDbOfPower(sys: ModalSystem, power: Float64Array, prefix: Float64Array): number {
+  const F = power.length
+  prefix[0] = 0
+  for (let f = 0; f < F; f++) prefix[f + 1] = prefix[f] + power[f]
+  const mean = prefix[F] / F || Number.MIN_VALUE
+  const floor = mean * 1e-12
+  const half = Math.round((sys.opts.smoothingOctaves * sys.opts.pointsPerOctave) / 2)
+  const { spreadFromHz: a, spreadToHz: b } = sys.opts
+  let lo = Infinity
+  let hi = -Infinity
+  for (let f = 0; f < F; f++) {
+    const hz = sys.freqsHz[f]
+    if (hz < a * (1 - 1e-9) || hz > b * (1 + 1e-9)) continue
+    const j0 = Math.max(0, f - half)
+    const j1 = Math.min(F - 1, f + half)
+    const s = Math.max((prefix[j1 + 1] - prefix[j0]) / (j1 - j0 + 1), floor)
+    if (s > hi) hi = s
+    if (s < lo) lo = s
+  }
+  return 10 * Math.log10(hi / lo)
+}
+
+/**
  * Low-frequency response from one or more speakers (driven in phase) to a seat by modal summation,
  * with each mode damped from the reverberation time, and its peak-to-null spread.
  * @param source a point or several (e.g. both speakers carrying the same bass), metres
@@ -545,9 +571,18 @@ export function modalResponse(room: RoomBox, source: Point | readonly Point[], r
 
 /** @internal */
 export function modalResponseFromSystem(sys: ModalSystem, sources: readonly Point[], receiver: Point): ModalResponse {
+  return modalResponseFromPower(sys, modalPower(sys, sources, receiver))
+}
+
+/** @internal |p|² per frequency from sources to a receiver. */
+export function modalPower(sys: ModalSystem, sources: readonly Point[], receiver: Point): Float64Array {
   const w = sourceWeights(sys, sources)
   const r = sourceWeights(sys, [receiver])
   for (let i = 0; i < w.length; i++) w[i] *= r[i]
-  const power = powerFromWeights(sys, w)
+  return powerFromWeights(sys, w)
+}
+
+/** @internal */
+export function modalResponseFromPower(sys: ModalSystem, power: Float64Array): ModalResponse {
   return { freqsHz: Array.from(sys.freqsHz), smoothingOctaves: sys.opts.smoothingOctaves, ...spreadOfPower(sys, power) }
 }

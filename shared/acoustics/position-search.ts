@@ -1,5 +1,5 @@
 import type { ModalResponseOptions, ModalSystem } from './modes'
-import { buildModalSystem, sourceWeights, spreadOfPower } from './modes'
+import { buildModalSystem, modalPower, sourceWeights, spreadDbOfPower } from './modes'
 import type { Point, RoomBox } from './types'
 import { assertPointInRoom, assertPositive, assertRoom } from './validate'
 
@@ -122,6 +122,7 @@ export function searchPositions(room: RoomBox, speakers: readonly Point[], seat:
 /** @internal The search on a prepared modal system (shared with the triage). */
 export function searchPositionsWithSystem(
   sys: ModalSystem, room: RoomBox, speakers: readonly Point[], seat: Point, opts: PositionSearchOptions = {},
+  currentPower: Float64Array = modalPower(sys, speakers, seat),
 ): PositionSearch {
   const nSeat = opts.seatPositions ?? 200
   const nAcross = opts.acrossPositions ?? 0
@@ -138,7 +139,8 @@ export function searchPositionsWithSystem(
   const centreY = W / 2
   const src = sourceWeights(sys, speakers)
   const power = new Float64Array(sys.freqsHz.length)
-  const spread = (p: Float64Array) => spreadOfPower(sys, p).spreadDb
+  const prefix = new Float64Array(sys.freqsHz.length + 1)
+  const spread = (p: Float64Array) => spreadDbOfPower(sys, p, prefix)
 
   // seat scan: receiver shape in y and z fixed (centre line, ear height) unless scanning across
   const lz = sys.dims[2]
@@ -153,23 +155,20 @@ export function searchPositionsWithSystem(
   }
   const scan: { x: number; y: number; spreadDb: number }[] = []
   const xs = linspace(seatFrom, seatTo, nSeat)
+  const centreGroups = groupTransfer(sys, seatWeights(centreY), false)
   if (nAcross > 0) {
     const grp = groupTransfer(sys, seatWeights(null), true)
     const ys = linspace(Math.min(0.3, W / 4), W - Math.min(0.3, W / 4), nAcross)
     for (const y of ys) for (const x of xs) scan.push({ x, y, spreadDb: spread(powerAt(sys, grp, x, y, power)) })
   } else {
-    const grp = groupTransfer(sys, seatWeights(centreY), false)
-    for (const x of xs) scan.push({ x, y: centreY, spreadDb: spread(powerAt(sys, grp, x, null, power)) })
+    for (const x of xs) scan.push({ x, y: centreY, spreadDb: spread(powerAt(sys, centreGroups, x, null, power)) })
   }
   const bestSeat = scan.reduce((a, b) => (b.spreadDb < a.spreadDb ? b : a))
-  const seatGroupsAtY = (y: number) => groupTransfer(sys, seatWeights(y), false)
-  const at = (x: number, y: number, grp = seatGroupsAtY(y)): SpreadAt => ({
-    point: { x, y, z: seat.z },
-    spreadDb: spread(powerAt(sys, grp, x, null, power)),
+  const onCentre = (x: number): SpreadAt => ({
+    point: { x, y: centreY, z: seat.z },
+    spreadDb: spread(powerAt(sys, centreGroups, x, null, power)),
   })
-  const centreGroups = Math.abs(seat.y - centreY) < 1e-12 ? null : seatGroupsAtY(centreY)
-  const currentGroups = seatGroupsAtY(seat.y)
-  const cg = centreGroups ?? currentGroups
+  const currentSpread = spread(currentPower)
 
   // speaker scan: all speakers at the same distance from the front wall, receiver fixed at the seat
   const rec = sourceWeights(sys, [seat])
@@ -188,21 +187,18 @@ export function searchPositionsWithSystem(
     spreadDb: spread(powerAt(sys, spkGroups, d, null, power)),
   }))
   const bestSpeaker = speakerScan.reduce((a, b) => (b.spreadDb < a.spreadDb ? b : a))
-  const currentWeights = new Float64Array(sys.modeCount)
-  for (let i = 0; i < sys.modeCount; i++) currentWeights[i] = src[i] * rec[i]
-  const currentGroupsSpk = groupTransfer(sys, currentWeights, false)
   const currentSpeaker = {
     distanceFromFront: speakers.reduce((s, p) => s + p.x, 0) / speakers.length,
-    spreadDb: spread(powerAt(sys, currentGroupsSpk, 0, null, power)),
+    spreadDb: currentSpread,
   }
 
   return {
     seat: {
       best: { point: { x: bestSeat.x, y: bestSeat.y, z: seat.z }, spreadDb: bestSeat.spreadDb },
-      current: at(seat.x, seat.y, currentGroups),
-      at38Percent: at(0.38 * L, centreY, cg),
-      at38PercentFromBack: at(0.62 * L, centreY, cg),
-      atRoomCentre: at(L / 2, centreY, cg),
+      current: { point: { x: seat.x, y: seat.y, z: seat.z }, spreadDb: currentSpread },
+      at38Percent: onCentre(0.38 * L),
+      at38PercentFromBack: onCentre(0.62 * L),
+      atRoomCentre: onCentre(L / 2),
       scan,
     },
     speakers: { best: bestSpeaker, current: currentSpeaker, scan: speakerScan },

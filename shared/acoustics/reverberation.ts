@@ -1,7 +1,7 @@
 import { porousOctaveBands } from './absorbers'
 import { getMaterial, materialForOpening } from './materials'
 import type { Furnishing, Opening, RoomBox, Surface, Treatment } from './types'
-import { OCTAVE_BANDS_HZ, SURFACES, roomSurfaceArea, roomVolume, surfaceArea, treatmentSurface } from './types'
+import { OCTAVE_BANDS_HZ, SURFACES, furnishingArea, roomSurfaceArea, roomVolume, surfaceArea, treatmentSize, treatmentSurface } from './types'
 import { speedOfSound } from './units'
 import { assertCelsius, assertFinite, assertNonNegative, assertOpening, assertPositive, assertRoom, assertSurface } from './validate'
 
@@ -138,7 +138,7 @@ export interface ReverberationAnalysis {
 /** Absorption per octave band (OCTAVE_BANDS_HZ) of a treatment; null entries where unknown. */
 export function treatmentAlpha(t: Treatment, celsius = 20): (number | null)[] {
   if (t.materialId) return [...getMaterial(t.materialId, 'treatment material').alpha]
-  if (t.thickness !== undefined) {
+  if (t.thickness !== undefined && t.thickness !== 0) {
     assertPositive(t.thickness, 'treatment thickness', 'm')
     const layer = { thickness: t.thickness, flowResistivity: t.flowResistivity ?? 10_000, airGap: t.airGap }
     return porousOctaveBands(layer, OCTAVE_BANDS_HZ, { celsius })
@@ -193,11 +193,12 @@ export function bandReverberation(input: ReverberationInput): ReverberationAnaly
     const s = treatmentSurface(t)
     if (!s) throw new RangeError(`treatment ${i + 1} needs the surface it is mounted on`)
     assertSurface(s, `treatment ${i + 1} surface`)
-    assertPositive(t.widthM, `treatment ${i + 1} width`, 'm')
-    assertPositive(t.heightM, `treatment ${i + 1} height`, 'm')
+    const { widthM, heightM } = treatmentSize(t)
+    assertPositive(widthM, `treatment ${i + 1} width`, 'm')
+    assertPositive(heightM, `treatment ${i + 1} height`, 'm')
     const alpha = treatmentAlpha(t, celsius)
     if (alpha.every((a) => a === null)) return
-    const a = t.widthM * t.heightM
+    const a = widthM * heightM
     area.set(s, (area.get(s) ?? 0) - a)
     patches.push({ areaM2: a, alpha })
   })
@@ -205,8 +206,9 @@ export function bandReverberation(input: ReverberationInput): ReverberationAnaly
     if ((area.get(s) ?? 0) < -1e-9) throw new RangeError(`openings and treatments on the ${s} cover more than its area of ${surfaceArea(room, s).toFixed(2)} m²`)
   }
   const furnish = (input.furnishings ?? []).map((f, i) => {
-    assertPositive(f.areaM2, `furnishing ${i + 1} area`, 'm²')
-    return { areaM2: f.areaM2, alpha: [...getMaterial(f.materialId, `furnishing ${i + 1} material`).alpha] }
+    const areaM2 = furnishingArea(f)
+    assertPositive(areaM2, `furnishing ${i + 1} area`, 'm²')
+    return { areaM2, alpha: [...getMaterial(f.materialId, `furnishing ${i + 1} material`).alpha] }
   })
   const rows: { areaM2: number; alpha: readonly (number | null)[] }[] = [
     ...SURFACES.map((s) => ({ areaM2: Math.max(0, area.get(s) ?? 0), alpha: getMaterial(input.surfaces[s]).alpha })),

@@ -111,14 +111,32 @@ export interface Treatment {
   x?: number
   y?: number
   z?: number
-  widthM: number
-  heightM: number
+  /** metres (`width` is a synonym) */
+  widthM?: number
+  heightM?: number
+  width?: number
+  height?: number
+  /** e.g. 'wall', 'corner', 'stand' (informational) */
+  mounting?: string
+  label?: string
 }
 
 /** Loose furnishings: a material row applied to an area (upholstery: the floor area it occupies), m². */
 export interface Furnishing {
   materialId: string
-  areaM2: number
+  /** m² (`area` is a synonym) */
+  areaM2?: number
+  area?: number
+}
+
+/** A furnishing's area, m². */
+export function furnishingArea(f: Furnishing): number {
+  return (f.areaM2 ?? f.area) as number
+}
+
+/** A treatment's size on its surface, metres. */
+export function treatmentSize(t: Treatment): { widthM: number; heightM: number } {
+  return { widthM: (t.widthM ?? t.width) as number, heightM: (t.heightM ?? t.height) as number }
 }
 
 /** The surface a treatment sits on. */
