@@ -1,12 +1,12 @@
 import '@fontsource/lato/400.css'
 import '@fontsource/lato/700.css'
-import './styles/app.css'
 import { createPinia } from 'pinia'
 import { createApp } from 'vue'
 import App from './App.vue'
 import { initialThemeName } from './composables/useThemePreference'
 import { vuetify } from './plugins/vuetify'
 import { router } from './router'
+import './styles/app.css'
 
 vuetify.theme.change(initialThemeName())
 

@@ -2,7 +2,7 @@ import { createVuetify, type ThemeDefinition } from 'vuetify'
 import { aliases, mdi } from 'vuetify/iconsets/mdi-svg'
 import 'vuetify/styles'
 
-/** Warm paper surfaces, a deep teal-ink primary and an amber accent. */
+/** Warm paper surfaces, a deep teal-ink primary and an amber accent; `panel` is the brand block on the sign-in pages. */
 const roomwright: ThemeDefinition = {
   dark: false,
   colors: {
@@ -18,6 +18,8 @@ const roomwright: ThemeDefinition = {
     'secondary-darken-1': '#46525A',
     accent: '#C7861B',
     'on-accent': '#1F1605',
+    panel: '#1E4D58',
+    'on-panel': '#F5F1EA',
     error: '#B3261E',
     info: '#2B6A94',
     success: '#2E7453',
@@ -44,6 +46,8 @@ const roomwrightDark: ThemeDefinition = {
     'secondary-darken-1': '#8D9AA2',
     accent: '#F0B753',
     'on-accent': '#241800',
+    panel: '#183A42',
+    'on-panel': '#EDE7DC',
     error: '#F2B8B5',
     info: '#8CC3EA',
     success: '#8FD0AE',
