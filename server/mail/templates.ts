@@ -27,25 +27,45 @@ export const CASE_KINDS: ReadonlySet<EmailKind> = new Set(['reply', 'info-reques
 export const REPLY_MARKER = 'Write your answer above this line to add it to the case'
 
 const name = z.string().trim().min(1).max(200)
-const caseFields = { recipientName: name, caseTitle: z.string().trim().min(1).max(300), caseId: z.string().min(1).max(100) }
+const httpUrl = z.string().url().refine((u) => /^https?:\/\//i.test(u), 'the link must be http(s)')
+const caseFields = {
+  recipientName: name,
+  caseTitle: z.string().trim().min(1).max(300),
+  /** The link is PUBLIC_URL/cases/<caseId>, or `caseUrl` when given. */
+  caseId: z.string().min(1).max(100).optional(),
+  caseUrl: httpUrl.optional(),
+}
+const needsLink = (v: { caseId?: string; caseUrl?: string }) => !!(v.caseId || v.caseUrl)
+const linkIssue = { message: 'a case e-mail needs caseId or caseUrl', path: ['caseId'] }
 const markdown = z.string().max(100_000)
 
 export const emailVarsSchemas = {
-  reply: z.object({ ...caseFields, advisorName: name, body: markdown.min(1) }),
-  'info-requested': z.object({ ...caseFields, advisorName: name, body: markdown.min(1) }),
-  'status-changed': z.object({ ...caseFields, status: z.enum(['submitted', 'closed', 'reopened']), note: z.string().max(2000).optional() }),
-  'plan-sent': z.object({ ...caseFields, advisorName: name, summary: markdown.optional() }),
+  reply: z.object({ ...caseFields, advisorName: name, body: markdown.min(1) }).refine(needsLink, linkIssue),
+  'info-requested': z.object({ ...caseFields, advisorName: name, body: markdown.min(1) }).refine(needsLink, linkIssue),
+  'status-changed': z
+    .object({ ...caseFields, status: z.enum(['submitted', 'received', 'closed', 'reopened']), note: z.string().max(2000).optional() })
+    .refine(needsLink, linkIssue),
+  'plan-sent': z.object({ ...caseFields, advisorName: name.optional(), summary: markdown.optional() }).refine(needsLink, linkIssue),
   invitation: z.object({
     recipientName: name,
     inviterName: name,
     role: z.enum(['listener', 'advisor', 'supervisor']),
-    setPasswordUrl: z.string().url().refine((u) => /^https?:\/\//i.test(u), 'the link must be http(s)'),
+    setPasswordUrl: httpUrl,
     expiresAt: z.coerce.date(),
   }),
   welcome: z.object({ recipientName: name }),
 } satisfies Record<EmailKind, z.ZodType>
 
 export type EmailVars<K extends EmailKind> = z.input<(typeof emailVarsSchemas)[K]>
+
+/** Other names accepted for some vars (the case services' names); the canonical name wins when both are given. */
+export const VAR_ALIASES: Record<string, string> = { listenerName: 'recipientName', authorName: 'advisorName', bodyMarkdown: 'body', change: 'status' }
+export function canonicalVars(vars: Record<string, unknown>): Record<string, unknown> {
+  const out: Record<string, unknown> = {}
+  for (const [k, v] of Object.entries(vars ?? {})) if (VAR_ALIASES[k] && v !== undefined) out[VAR_ALIASES[k]] = v
+  for (const [k, v] of Object.entries(vars ?? {})) if (!VAR_ALIASES[k] && v !== undefined) out[k] = v
+  return out
+}
 export interface RenderedEmail { subject: string; html: string; text: string }
 
 /** PUBLIC_URL, or http://localhost:PORT when none is configured; no trailing slash. */
@@ -137,7 +157,7 @@ const ROLE_LABEL = { listener: 'listener', advisor: 'advisor', supervisor: 'supe
 function kindValues(kind: EmailKind, v: Record<string, unknown>): { values: Record<string, string>; preheader: string } {
   const s = (k: string) => String(v[k] ?? '')
   const base: Record<string, string> = { recipientName: s('recipientName') }
-  if (CASE_KINDS.has(kind)) Object.assign(base, { caseTitle: s('caseTitle'), caseUrl: caseUrl(s('caseId')) })
+  if (CASE_KINDS.has(kind)) Object.assign(base, { caseTitle: s('caseTitle'), caseUrl: v.caseUrl ? s('caseUrl') : caseUrl(s('caseId')) })
   switch (kind) {
     case 'reply':
     case 'info-requested':
@@ -146,7 +166,7 @@ function kindValues(kind: EmailKind, v: Record<string, unknown>): { values: Reco
         preheader: excerpt(s('body')),
       }
     case 'status-changed': {
-      const words = STATUS_WORDS[v.status as keyof typeof STATUS_WORDS]
+      const words = STATUS_WORDS[(v.status === 'received' ? 'submitted' : v.status) as keyof typeof STATUS_WORDS]
       const note = s('note').trim()
       return {
         values: {
@@ -163,7 +183,7 @@ function kindValues(kind: EmailKind, v: Record<string, unknown>): { values: Reco
       return {
         values: {
           ...base,
-          advisorName: s('advisorName'),
+          advisorName: s('advisorName') || 'Your advisor',
           summary,
           summaryHtml: summary ? `<div style="margin:0 0 20px;padding:4px 16px;border-left:3px solid #0f4c4f;background:#f8f4ee;">${renderMarkdownSafe(summary)}</div>` : '',
         },
@@ -200,7 +220,7 @@ function excerpt(md: string, max = 120): string {
 export function renderEmail<K extends EmailKind>(kind: K, vars: EmailVars<K>): RenderedEmail {
   const schema = emailVarsSchemas[kind] as z.ZodType
   if (!schema) throw new TypeError(`there is no e-mail template for kind "${kind}"`)
-  const parsed = schema.safeParse(vars)
+  const parsed = schema.safeParse(canonicalVars(vars as Record<string, unknown>))
   if (!parsed.success) {
     const what = parsed.error.issues.map((i) => `${i.path.join('.') || '(vars)'}: ${i.message}`).join('; ')
     throw new TypeError(`the ${kind} e-mail cannot be rendered: ${what}`)

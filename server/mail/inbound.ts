@@ -1,0 +1,170 @@
+import { timingSafeEqual } from 'node:crypto'
+import { JSDOM } from 'jsdom'
+import { QueryTypes } from 'sequelize'
+import { config } from '../config'
+import { db } from '../db/sequelize'
+import { AppError } from '../errors'
+import { log } from '../lib/log'
+import { receiveEmailReply } from '../services/messages'
+import { REPLY_MARKER } from './templates'
+
+/** An e-mail sent to a case's reply address, from the fake SMTP server or a provider's inbound webhook. */
+export interface InboundEmail {
+  /** The recipient(s): an address, "Name <address>", a comma-separated list, or an array of these. */
+  to: string | string[]
+  from: string
+  subject?: string
+  text?: string
+  html?: string
+  /** The Auto-Submitted header when known (RFC 3834); anything but "no" marks an automatic reply. */
+  autoSubmitted?: string
+}
+
+export type InboundRejection = 'no_reply_address' | 'unknown_token' | 'sender_mismatch' | 'auto_reply' | 'empty_reply' | `case_${string}`
+export type InboundResult = { accepted: true; caseId: string; messageId?: string } | { accepted: false; reason: InboundRejection }
+export type AppendReply = (input: { caseId: string; userId: string; body: string }) => Promise<{ id?: string } | unknown>
+
+const TOKEN = /^[A-Za-z0-9_-]{16,64}$/
+
+function rawAddress(s: string): string | null {
+  const angle = /<\s*([^<>\s]+@[^<>\s]+)\s*>/.exec(s)
+  return angle ? angle[1] : (/([^\s<>,;"]+@[^\s<>,;"]+)/.exec(s)?.[1] ?? null)
+}
+
+/** The bare address in `Name <a@b>` or `a@b`, lower-cased; null when there is none. */
+export function parseAddress(s: string): string | null {
+  return rawAddress(String(s ?? ''))?.toLowerCase() ?? null
+}
+
+function addresses(to: string | string[]): string[] {
+  // Split on commas and semicolons that are not inside a quoted display name.
+  const parts = (Array.isArray(to) ? to : [to]).flatMap((t) => String(t ?? '').split(/[,;](?=(?:[^"]*"[^"]*")*[^"]*$)/))
+  return parts.map(rawAddress).filter((a): a is string => !!a)
+}
+
+/** The token of the first recipient of the form reply+<token>@<domain> (domain in any case); null when there is none. */
+export function extractReplyToken(to: string | string[], domain = config().MAIL_REPLY_DOMAIN): string | null {
+  const d = domain.toLowerCase()
+  for (const a of addresses(to)) {
+    const at = a.lastIndexOf('@')
+    if (a.slice(at + 1).toLowerCase() !== d) continue
+    const m = /^reply\+(.+)$/i.exec(a.slice(0, at))
+    if (m && TOKEN.test(m[1])) return m[1]
+  }
+  return null
+}
+
+// ---------------------------------------------------------------- quoted history
+
+const REPLY_HEADER = [
+  /^On\s.*(\d|@).*\bwrote:$/i, // Gmail, Apple Mail, Thunderbird: "On Tue, 4 Jun 2024 at 09:12, Roomwright <…> wrote:"
+  /^Le\s.*(\d|@).*a écrit\s?:$/i, // French clients
+  /^Am\s.*(\d|@).*schrieb.*:$/i, // German clients
+  /^El\s.*(\d|@).*escribió:$/i, // Spanish clients
+  /^Op\s.*(\d|@).*schreef.*:$/i, // Dutch clients
+]
+const SEPARATOR = [
+  /^-{2,}\s*Original Message\s*-{2,}$/i, // Outlook desktop
+  /^-{2,}\s*Forwarded message\s*-{2,}$/i, // Gmail forward
+  /^Begin forwarded message:$/i, // Apple Mail forward
+  /^_{10,}$/, // Outlook's rule above its From:/Sent: block
+  /^(Sent from my \w[\w ]*|Sent from (Mail|Outlook) for \w+|Get Outlook for \w+)\.?$/i, // mobile footers
+]
+const markerText = REPLY_MARKER.toLowerCase()
+
+function isCut(line: string, raw: string, next: string | undefined, nextNext: string | undefined): boolean {
+  if (raw === '-- ' || raw.trimEnd() === '--') return true // signature separator, RFC 3676 §4.3
+  if (line.toLowerCase().includes(markerText)) return true
+  if (SEPARATOR.some((r) => r.test(line))) return true
+  if (REPLY_HEADER.some((r) => r.test(line))) return true
+  // A reply header wrapped onto two lines ("On Tue, 4 Jun 2024 at 09:12, Roomwright <" + "reply+…> wrote:").
+  if (next !== undefined && /^(On|Le|Am|El|Op)\s/.test(line) && REPLY_HEADER.some((r) => r.test(`${line} ${next}`))) return true
+  // Outlook's header block of the quoted message: "From: …" followed by "Sent:" or "Date:".
+  if (/^\*?From:\*?\s/i.test(line) && next !== undefined && (/^\*?(Sent|Date):\*?\s/i.test(next) || /^\*?(Sent|Date):\*?\s/i.test(nextNext ?? ''))) return true
+  return false
+}
+
+/**
+ * The listener's own words from a reply: everything above the first sign of the quoted history.
+ * Cuts at our reply marker, an "On … wrote:" line (one line or wrapped onto two, also in French,
+ * German, Spanish and Dutch), an Outlook "-----Original Message-----" or "From:/Sent:" block, a
+ * forward header, the signature separator "-- " (RFC 3676 §4.3) and common mobile footers; drops
+ * every line quoted with ">" (so answers written between quoted lines are kept); trims blank lines.
+ */
+export function stripQuotedReply(raw: string): string {
+  const lines = raw.replace(/\r\n?/g, '\n').replace(/\u00a0/g, ' ').split('\n')
+  const out: string[] = []
+  for (let i = 0; i < lines.length; i++) {
+    const line = lines[i].trim()
+    if (isCut(line, lines[i], lines[i + 1]?.trim(), lines[i + 2]?.trim())) break
+    if (line.startsWith('>')) continue
+    out.push(lines[i].replace(/\s+$/, ''))
+  }
+  return out.join('\n').replace(/\n{3,}/g, '\n\n').trim()
+}
+
+/** Plain text from an HTML-only reply, without the quoted parts mail clients mark up as such. */
+export function htmlToReplyText(html: string): string {
+  const { document } = new JSDOM(html).window
+  document.querySelectorAll('blockquote, .gmail_quote, #divRplyFwdMsg, #appendonsend, [type="cite"], style, script, head').forEach((n) => n.remove())
+  document.querySelectorAll('br').forEach((n) => n.replaceWith('\n'))
+  document.querySelectorAll('p, div, li, tr, h1, h2, h3, h4, h5, h6').forEach((n) => n.append('\n'))
+  return document.body?.textContent ?? ''
+}
+
+// ---------------------------------------------------------------- handling
+
+async function logInbound(via: 'smtp' | 'webhook', mail: InboundEmail, status: 'accepted' | 'rejected', reason: string | null, caseId: string | null) {
+  await db().query(
+    'INSERT INTO inbound_email_log (via, status, reason, to_address, from_address, subject, case_id) VALUES ($1, $2, $3, $4, $5, $6, $7)',
+    { bind: [via, status, reason, (Array.isArray(mail.to) ? mail.to.join(', ') : String(mail.to ?? '')).slice(0, 2000), String(mail.from ?? '').slice(0, 500), (mail.subject ?? '').slice(0, 500), caseId] },
+  )
+  if (status === 'rejected') log.warn('inbound e-mail rejected', { via, reason, from: mail.from })
+}
+
+function sameToken(a: string, b: string): boolean {
+  const x = Buffer.from(a)
+  const y = Buffer.from(b)
+  return x.length === y.length && timingSafeEqual(x, y)
+}
+
+/**
+ * Appends a reply received by e-mail to its case as the listener's message. Rejected (and logged in
+ * inbound_email_log) when no recipient is a reply address, the token matches no case, the sender is
+ * not the case's listener, the message is an automatic reply, nothing is left after the quoted
+ * history is stripped, or the case refuses the message (closed, say).
+ */
+export async function handleInboundEmail(mail: InboundEmail, opts: { via?: 'smtp' | 'webhook'; append?: AppendReply } = {}): Promise<InboundResult> {
+  const via = opts.via ?? 'webhook'
+  const append = opts.append ?? receiveEmailReply
+  const reject = async (reason: InboundRejection, caseId: string | null = null): Promise<InboundResult> => {
+    await logInbound(via, mail, 'rejected', reason, caseId)
+    return { accepted: false, reason }
+  }
+
+  const token = extractReplyToken(mail.to)
+  if (!token) return reject('no_reply_address')
+  const [c] = await db().query<{ id: string; reply_token: string; listener_id: string; listener_email: string }>(
+    'SELECT c.id, c.reply_token, c.listener_id, u.email AS listener_email FROM cases c JOIN users u ON u.id = c.listener_id WHERE c.reply_token = $1',
+    { bind: [token], type: QueryTypes.SELECT },
+  )
+  if (!c || !sameToken(c.reply_token, token)) return reject('unknown_token')
+  const sender = parseAddress(mail.from ?? '')
+  if (!sender || sender !== c.listener_email.toLowerCase()) return reject('sender_mismatch', c.id)
+  if (mail.autoSubmitted && mail.autoSubmitted.trim().toLowerCase() !== 'no') return reject('auto_reply', c.id)
+
+  const source = mail.text?.trim() ? mail.text : mail.html ? htmlToReplyText(mail.html) : ''
+  const body = stripQuotedReply(source)
+  if (!body) return reject('empty_reply', c.id)
+
+  let appended: unknown
+  try {
+    appended = await append({ caseId: c.id, userId: c.listener_id, body })
+  } catch (e) {
+    if (e instanceof AppError && e.status < 500) return reject(`case_${e.code}`.slice(0, 40) as InboundRejection, c.id)
+    throw e
+  }
+  await logInbound(via, mail, 'accepted', null, c.id)
+  const messageId = (appended as { id?: unknown } | undefined)?.id
+  return { accepted: true, caseId: c.id, ...(typeof messageId === 'string' ? { messageId } : {}) }
+}

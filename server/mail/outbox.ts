@@ -1,0 +1,93 @@
+import { randomUUID } from 'node:crypto'
+import { QueryTypes, type Transaction } from 'sequelize'
+import { z } from 'zod'
+import { config } from '../config'
+import { db } from '../db/sequelize'
+import { enqueue } from '../jobs/queue'
+import { CASE_KINDS, ESSENTIAL_KINDS, canonicalVars, renderEmail, type EmailKind } from './templates'
+import { DELIVER_QUEUE, ensureMailQueues } from './queues'
+
+export interface QueueEmailInput {
+  /** Recipient address. */
+  to: string
+  /** The recipient's account, when they have one: their name fills `recipientName` and their e-mail choice is respected. */
+  toUserId?: string
+  kind: EmailKind
+  /** The case the e-mail is about: its title fills `caseTitle`, its reply token the Reply-To. */
+  caseId?: string
+  /** Template vars (see emailVarsSchemas); given values win over those looked up from the user and case. */
+  vars: Record<string, unknown>
+  /** The case's reply token, when the caller has it at hand (else read from the case). */
+  replyToken?: string
+}
+
+export type QueueEmailResult =
+  | { queued: true; id: string; messageId: string; jobId: string | null }
+  | { queued: false; reason: 'opted_out' }
+
+const address = z.string().trim().email().max(254)
+
+/** The domain of MAIL_FROM's address (for Message-IDs), else MAIL_REPLY_DOMAIN. */
+export function mailDomain(): string {
+  const m = /@([^>\s]+)>?\s*$/.exec(config().MAIL_FROM)
+  return m ? m[1].toLowerCase() : config().MAIL_REPLY_DOMAIN
+}
+export const replyAddress = (token: string) => `reply+${token}@${config().MAIL_REPLY_DOMAIN}`
+
+/**
+ * Writes one e-mail to the outbox and its delivery job to pg-boss in the caller's transaction, so
+ * the e-mail exists exactly when the change it reports was committed (transactional outbox). The
+ * e-mail is rendered now and stored whole, with a Message-ID fixed for every later attempt.
+ *
+ * Optional kinds (status-changed, welcome) are skipped when the recipient's account has
+ * `email_optional` off; essential kinds always go.
+ */
+export async function queueEmail(input: QueueEmailInput, opts: { transaction?: Transaction } = {}): Promise<QueueEmailResult> {
+  if (!opts.transaction) return db().transaction((t) => queueEmail(input, { transaction: t }))
+  const t = opts.transaction
+  const to = address.parse(input.to)
+  const sequelize = db()
+
+  const [user] = await sequelize.query<{ id: string; name: string; email_optional: boolean }>(
+    input.toUserId
+      ? 'SELECT id, name, email_optional FROM users WHERE id = $1'
+      : 'SELECT id, name, email_optional FROM users WHERE lower(email) = lower($1)',
+    { bind: [input.toUserId ?? to], transaction: t, type: QueryTypes.SELECT },
+  )
+  if (input.toUserId && !user) throw new Error(`cannot e-mail user ${input.toUserId}: there is no such user`)
+  if (user && !user.email_optional && !ESSENTIAL_KINDS.has(input.kind)) return { queued: false, reason: 'opted_out' }
+
+  let replyToken = input.replyToken
+  const fromCase: Record<string, unknown> = {}
+  if (input.caseId) {
+    const [c] = await sequelize.query<{ title: string; reply_token: string }>('SELECT title, reply_token FROM cases WHERE id = $1', {
+      bind: [input.caseId],
+      transaction: t,
+      type: QueryTypes.SELECT,
+    })
+    if (!c) throw new Error(`cannot e-mail about case ${input.caseId}: there is no such case`)
+    fromCase.caseId = input.caseId
+    fromCase.caseTitle = c.title
+    replyToken ??= c.reply_token
+  }
+  if (CASE_KINDS.has(input.kind) && !input.caseId) throw new TypeError(`a ${input.kind} e-mail needs the caseId it is about`)
+
+  const vars = { ...(user ? { recipientName: user.name } : {}), ...fromCase, ...canonicalVars(input.vars) }
+  const rendered = renderEmail(input.kind, vars as never)
+
+  const id = randomUUID()
+  const messageId = `<${id}@${mailDomain()}>`
+  const replyTo = CASE_KINDS.has(input.kind) && replyToken ? replyAddress(replyToken) : null
+
+  await ensureMailQueues()
+  const jobId = await enqueue(DELIVER_QUEUE, { outboxId: id }, { transaction: t })
+  await sequelize.query(
+    `INSERT INTO email_outbox (id, to_address, to_user_id, kind, case_id, subject, html, text, reply_to, message_id, job_id)
+     VALUES ($1, $2, $3, $4, $5, $6, $7, $8, $9, $10, $11)`,
+    {
+      bind: [id, to, user?.id ?? null, input.kind, input.caseId ?? null, rendered.subject, rendered.html, rendered.text, replyTo, messageId, jobId],
+      transaction: t,
+    },
+  )
+  return { queued: true, id, messageId, jobId }
+}

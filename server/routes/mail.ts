@@ -1,0 +1,68 @@
+import { createHash, timingSafeEqual } from 'node:crypto'
+import { Router, type RequestHandler } from 'express'
+import { z } from 'zod'
+import { config } from '../config'
+import { AppError, notFound } from '../errors'
+import { requireRole } from '../middleware/guards'
+import { validate } from '../middleware/validate'
+import { listMailbox } from '../mail/mailbox'
+import { handleInboundEmail } from '../mail/inbound'
+
+export const INBOUND_SECRET_HEADER = 'X-Roomwright-Inbound-Secret'
+
+const digest = (s: string) => createHash('sha256').update(s, 'utf8').digest()
+/** The shared secret of the inbound webhook, compared in constant time (equal-length digests). */
+const requireInboundSecret: RequestHandler = (req, _res, next) => {
+  const given = req.get(INBOUND_SECRET_HEADER)
+  if (!given || !timingSafeEqual(digest(given), digest(config().INBOUND_EMAIL_SECRET))) {
+    return next(new AppError('The inbound e-mail secret is missing or wrong', { status: 401, code: 'bad_inbound_secret' }))
+  }
+  next()
+}
+
+/** The mailbox exists only while the local fake SMTP server is in use. */
+const fakeSmtpOnly: RequestHandler = (_req, _res, next) => next(config().FAKE_SMTP === 'on' ? undefined : notFound('The mailbox'))
+
+const mailboxQuery = z.object({
+  limit: z.coerce.number().int().min(1).max(200).default(50),
+  before: z.coerce.number().int().positive().optional(),
+  to: z.string().trim().email().optional(),
+})
+
+const addressList = z.union([z.string().min(3).max(2000), z.array(z.string().min(3).max(500)).min(1).max(50)])
+const inboundBody = z.object({
+  to: addressList,
+  from: z.string().min(3).max(500),
+  subject: z.string().max(1000).default(''),
+  text: z.string().max(1_000_000).optional(),
+  html: z.string().max(2_000_000).optional(),
+})
+
+/** Rejections the sender cannot fix by retrying: who may write is refused (403), what was written is unusable (422). */
+const rejectionStatus = (reason: string) => (reason === 'unknown_token' || reason === 'sender_mismatch' || reason === 'no_reply_address' ? 403 : 422)
+const rejectionMessage: Record<string, string> = {
+  no_reply_address: 'No recipient is a case reply address',
+  unknown_token: 'The reply address matches no case',
+  sender_mismatch: 'The sender is not the listener of this case',
+  auto_reply: 'Automatic replies are not added to cases',
+  empty_reply: 'Nothing was left once the quoted history was removed',
+}
+
+/** Mounted at /api: GET /dev/mailbox (supervisors, fake SMTP only) and POST /inbound/email (shared secret). */
+export function mailRouter(): Router {
+  const router = Router()
+
+  router.get('/dev/mailbox', fakeSmtpOnly, requireRole('supervisor'), validate(mailboxQuery, 'query'), async (_req, res) => {
+    res.json({ messages: await listMailbox(res.locals.query) })
+  })
+
+  router.post('/inbound/email', requireInboundSecret, validate(inboundBody), async (_req, res) => {
+    const result = await handleInboundEmail(res.locals.body, { via: 'webhook' })
+    if (!result.accepted) {
+      throw new AppError(rejectionMessage[result.reason] ?? 'The case did not accept this message', { status: rejectionStatus(result.reason), code: result.reason })
+    }
+    res.status(201).json(result)
+  })
+
+  return router
+}
