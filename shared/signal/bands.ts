@@ -15,9 +15,11 @@
  * G^±1/8, G^±1/4, G^±3/8 (the design gives 0.0/0.06/0.7 dB); +2…+5 dB at the band
  * edges G^±1/2 (the design: 3.01 dB); at least 17.5, 42, 61, 70 dB at G^±1, ±2, ±3,
  * ±4 (the design: about 19.6, 43.4, 62.7, 81 dB for octaves, 21.3, 46, 64, 81 dB for
- * one-third octaves). Exception: near Nyquist the bilinear transform steepens the
- * upper skirt and flattens the lower one, so the 8 kHz octave at 44.1 kHz gives only
- * 59.9 dB three octaves below (limit 61): class 1 is met there out to two octaves.
+ * one-third octaves). Exception: near Nyquist the bilinear transform flattens the
+ * lower skirt, so the 8 kHz octave at 44.1 and 48 kHz gives only about 41 dB two
+ * octaves below (limit 42) and 60 dB three below (limit 61): there class 1 is met
+ * from mid-band to one octave out, not beyond. At 88.2 and 96 kHz every band meets
+ * the tabulated points to two octaves.
  *
  * The time response of a band filter lengthens short decays: ISO 3382-2 notes the
  * filter does not bias the decay when B·T > 16 (B the bandwidth in Hz); each band

@@ -1,0 +1,29 @@
+/**
+ * Piscina worker: parses and analyses one measurement file. Runs in a worker thread,
+ * so a file that makes the analysis crash, hang or exhaust memory takes down only
+ * this thread. Loaded through worker-bootstrap.mjs, which registers tsx.
+ */
+import { analyzeMeasurementBytes, MeasurementFileError } from '../../shared/signal/index'
+import type { MeasurementAnalysisResult, MeasurementErrorCode, MeasurementKind, PredictedReflection } from '../../shared/signal/index'
+
+export interface AnalysisTask {
+  bytes: Uint8Array
+  fileName: string
+  kind?: MeasurementKind
+  predicted?: PredictedReflection[]
+}
+
+export type AnalysisReply =
+  | { ok: true; result: MeasurementAnalysisResult }
+  | { ok: false; error: { code: MeasurementErrorCode; message: string; row?: number } }
+
+// A MeasurementFileError is answered as data: its class and code would not survive the thread boundary as a thrown error.
+export default function analyzeTask(task: AnalysisTask): AnalysisReply {
+  try {
+    const result = analyzeMeasurementBytes(task.bytes, { fileName: task.fileName, kind: task.kind, predicted: task.predicted })
+    return { ok: true, result }
+  } catch (err) {
+    if (err instanceof MeasurementFileError) return { ok: false, error: err.toJSON() }
+    throw err
+  }
+}
