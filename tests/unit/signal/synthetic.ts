@@ -102,8 +102,13 @@ export function addPulse(x: Float64Array, sampleRate: number, tMs: number, amp: 
 
 /** Writes samples (±1 full scale) as a WAV in the given wavefile bit depth code. */
 export function writeWav(channels: Float64Array[], sampleRate: number, bitDepth: '16' | '24' | '32' | '32f' | '8' | '64'): Uint8Array {
-  const full: Record<string, number> = { '8': 127, '16': 32767, '24': 8388607, '32': 2147483647, '32f': 1, '64': 1 }
-  const toCode = (v: number) => (bitDepth === '32f' || bitDepth === '64' ? v : bitDepth === '8' ? Math.round(v * 127) + 128 : Math.round(v * full[bitDepth]))
+  const bits: Record<string, number> = { '8': 8, '16': 16, '24': 24, '32': 32 }
+  const toCode = (v: number) => {
+    if (bitDepth === '32f' || bitDepth === '64') return v
+    const full = 2 ** (bits[bitDepth] - 1)
+    const code = Math.max(-full, Math.min(full - 1, Math.round(v * full)))
+    return bitDepth === '8' ? code + 128 : code
+  }
   const data = channels.map((ch) => Array.from(ch, toCode))
   const wav = new WaveFile()
   wav.fromScratch(channels.length, sampleRate, bitDepth, channels.length === 1 ? data[0] : data)
