@@ -1,0 +1,8 @@
+export { sniffFile, describeRejected, heicSupported, SNIFF_BYTES, MIN_RESPONSE_ROWS } from './sniff'
+export type { SniffResult, UploadFormat, UploadKind } from './sniff'
+export { sanitiseFilename, MAX_FILENAME_LENGTH } from './filename'
+export { uploadFile, uploadedFile, UPLOAD_LIMITS, unsupportedType, tooLarge } from './middleware'
+export type { UploadedFile, UploadOptions } from './middleware'
+export { makeThumbnail, imageInfo, thumbnailKey, THUMBNAIL_WIDTH, MAX_IMAGE_PIXELS } from './images'
+export type { ImageInfo, ImageOptions } from './images'
+export { discardUpload, finaliseUpload } from './files'
