@@ -5,7 +5,7 @@ import type { Role } from '../../shared/schemas/auth'
 
 export { homeRouteFor, named, safeRedirect, routeNames, type RouteName } from './routes'
 
-export const routes = buildRoutes(() => useAuthStore().homeRoute)
+export const routes = buildRoutes()
 
 export const router = createRouter({
   history: createWebHistory(import.meta.env.BASE_URL),
@@ -16,6 +16,7 @@ export const router = createRouter({
 router.beforeEach(async (to) => {
   const auth = useAuthStore()
   await auth.ensureLoaded()
+  if (to.name === 'home') return named(auth.homeRoute)
   if (to.meta.guestOnly && auth.user) return named(auth.homeRoute)
   if (to.meta.public) return true
   if (!auth.user) return { name: 'sign-in', query: { redirect: to.fullPath } }
