@@ -55,6 +55,7 @@ export const SETUP_FLAG_IDS = [
 
 const m2 = (v: number) => `${v.toFixed(2)} m`
 const hz = (v: number) => `${Math.round(v)} Hz`
+const cap = (t: string) => t.charAt(0).toUpperCase() + t.slice(1)
 const SEVERITY_RANK = { problem: 0, warning: 1, info: 2 } as const
 
 /** Thresholds (common practice, no source unless named). */
@@ -85,10 +86,10 @@ export const FLAG_THRESHOLDS = {
 }
 
 function speakerNames(input: SetupFlagInput): string[] {
-  if (input.speakerLabels && input.speakerLabels.length === input.speakers.length) return input.speakerLabels
+  if (input.speakerLabels && input.speakerLabels.length === input.speakers.length) return input.speakerLabels.map((l) => `speaker “${l}”`)
   if (input.speakers.length === 2) {
     const leftFirst = input.speakers[0].y <= input.speakers[1].y
-    return leftFirst ? ['left speaker', 'right speaker'] : ['right speaker', 'left speaker']
+    return leftFirst ? ['the left speaker', 'the right speaker'] : ['the right speaker', 'the left speaker']
   }
   return input.speakers.map((_, i) => `speaker ${i + 1}`)
 }
@@ -169,7 +170,7 @@ export function setupFlags(input: SetupFlagInput): SetupFlag[] {
     let worst = 0
     const sideDiff = Math.abs(left.p.y - (W - right.p.y))
     if (sideDiff > T.symmetryM) {
-      reasons.push(`the ${left.name} is ${m2(left.p.y)} from its side wall and the ${right.name} ${m2(W - right.p.y)} from its side wall`)
+      reasons.push(`${left.name} is ${m2(left.p.y)} from its side wall and ${right.name} ${m2(W - right.p.y)} from its side wall`)
       worst = Math.max(worst, sideDiff)
     }
     const frontDiff = Math.abs(left.p.x - right.p.x)
@@ -232,10 +233,10 @@ export function setupFlags(input: SetupFlagInput): SetupFlag[] {
     }
     if (pairs.length) {
       notchSeverity = 'warning'
-      notchNotes.push(`the ${names[i]} is about as far from ${pairs[0]}, so their cancellations pile up near ${hz(inRange[0].notchHz)}`)
+      notchNotes.push(`${names[i]} is about as far from ${pairs[0]}, so their cancellations pile up near ${hz(inRange[0].notchHz)}`)
     } else {
       const front = inRange.find((n) => n.surface === 'front')
-      if (front) notchNotes.push(`the ${names[i]} is ${m2(front.distance)} from the front wall, which cancels some sound near ${hz(front.notchHz)}`)
+      if (front) notchNotes.push(`${names[i]} is ${m2(front.distance)} from the front wall, which cancels some sound near ${hz(front.notchHz)}`)
     }
   })
   if (notchNotes.length) {
@@ -246,7 +247,7 @@ export function setupFlags(input: SetupFlagInput): SetupFlag[] {
   const portNear = speakers.map((p, i) => ({ p, i })).filter(({ p, i }) => kinds[i] === 'ported-rear' && p.x < 0.2)
   if (portNear.length) {
     add('rear-port-near-wall', 'warning',
-      `Your ${portNear.map(({ i }) => names[i]).join(' and ')} ${portNear.length > 1 ? 'have ports' : 'has a port'} on the back and ${portNear.length > 1 ? 'stand' : 'stands'} less than 0.2 m from the wall. That chokes the port and makes the bass boomy; give ${portNear.length > 1 ? 'them' : 'it'} a little more room or use the port plugs if the maker supplies them.`)
+      `${cap(portNear.map(({ i }) => names[i]).join(' and '))} ${portNear.length > 1 ? 'have ports' : 'has a port'} on the back and ${portNear.length > 1 ? 'stand' : 'stands'} less than 0.2 m from the wall. That chokes the port and makes the bass boomy; give ${portNear.length > 1 ? 'them' : 'it'} a little more room or use the port plugs if the maker supplies them.`)
   }
 
   // --- openings ------------------------------------------------------------------------------------
@@ -320,7 +321,7 @@ export function setupFlags(input: SetupFlagInput): SetupFlag[] {
       if (distance(p, seat) === 0) return
       for (const wall of ['left', 'right'] as const) {
         const panel = reflectionPanel(room, p, seat, wall, { marginM: 0 })
-        if (!covered(wall, panel.centre)) bare.push(`the ${names[i]} off the ${wall} wall, about ${m2(panel.centre.x)} from the front wall at ${m2(panel.centre.z)} height`)
+        if (!covered(wall, panel.centre)) bare.push(`${names[i]} off the ${wall} wall, about ${m2(panel.centre.x)} from the front wall at ${m2(panel.centre.z)} height`)
       }
     })
     if (bare.length) {
@@ -347,7 +348,7 @@ export function setupFlags(input: SetupFlagInput): SetupFlag[] {
   const off = speakers.map((p, i) => ({ d: p.z - seat.z, i })).filter((e) => Math.abs(e.d) > T.earHeightM)
   if (off.length) {
     add('speaker-height-vs-ear', 'info',
-      `The ${off.map((e) => names[e.i]).join(' and ')} ${off.length > 1 ? 'are' : 'is'} ${m2(Math.abs(off[0].d))} ${off[0].d > 0 ? 'above' : 'below'} your ear height. Most speakers sound best with the tweeter near ear height or angled towards your ears.`)
+      `${cap(off.map((e) => names[e.i]).join(' and '))} ${off.length > 1 ? 'are' : 'is'} ${m2(Math.abs(off[0].d))} ${off[0].d > 0 ? 'above' : 'below'} your ear height. Most speakers sound best with the tweeter near ear height or angled towards your ears.`)
   }
   if (W > L * 1.05) {
     add('facing-long-wall', 'info',
