@@ -1,0 +1,48 @@
+import { describe, expect, it } from 'vitest'
+import { MATERIALS, OCTAVE_BANDS_HZ, getMaterial, materialForOpening, materialIds } from '../../../shared/acoustics'
+
+describe('materials table', () => {
+  it('has at least 20 finishes and furnishings plus porous panels of common thicknesses', () => {
+    expect(MATERIALS.filter((m) => m.category !== 'absorber').length).toBeGreaterThanOrEqual(20)
+    for (const t of [25, 50, 100, 150]) expect(materialIds()).toContain(`porous-panel-${t}mm`)
+  })
+  it('gives every row a stable kebab-case id, a named source, and coefficients 0…1 at 125 Hz–4 kHz', () => {
+    const ids = new Set<string>()
+    for (const m of MATERIALS) {
+      expect(m.id).toMatch(/^[a-z0-9]+(-[a-z0-9]+)*$/)
+      expect(ids.has(m.id)).toBe(false)
+      ids.add(m.id)
+      expect(m.source.length).toBeGreaterThan(10)
+      expect(m.alpha).toHaveLength(OCTAVE_BANDS_HZ.length)
+      for (let b = 1; b <= 6; b++) {
+        expect(m.alpha[b]).not.toBeNull()
+        expect(m.alpha[b]!).toBeGreaterThanOrEqual(0)
+        expect(m.alpha[b]!).toBeLessThanOrEqual(1)
+      }
+    }
+  })
+  it('holds the Bies, Hansen & Howard, Engineering Noise Control Table 6.2 rows quoted in REFERENCES.md', () => {
+    const rows: [string, number[]][] = [
+      ['heavy-carpet-on-concrete', [0.02, 0.06, 0.14, 0.37, 0.6, 0.65]],
+      ['gypsum-on-studs', [0.29, 0.1, 0.05, 0.04, 0.07, 0.09]],
+      ['window-glass', [0.35, 0.25, 0.18, 0.12, 0.07, 0.04]],
+      ['wood-floor-on-joists', [0.15, 0.11, 0.1, 0.07, 0.06, 0.07]],
+      ['mineral-wool-50mm-16kg', [0.17, 0.45, 0.8, 0.89, 0.97, 0.94]],
+    ]
+    for (const [id, a] of rows) {
+      expect(getMaterial(id).alpha.slice(1, 7)).toEqual(a)
+      expect(getMaterial(id).source).toMatch(/Bies/)
+    }
+  })
+  it('computes the porous panels from Delany–Bazley: thicker panels absorb more at 125 Hz', () => {
+    const a = [25, 50, 100, 200].map((t) => getMaterial(`porous-panel-${t}mm`).alpha[1]!)
+    for (let i = 1; i < a.length; i++) expect(a[i]).toBeGreaterThan(a[i - 1])
+  })
+  it('maps opening kinds to materials and rejects unknown ids', () => {
+    expect(materialForOpening('window')).toBe('window-glass')
+    expect(materialForOpening('open-doorway')).toBe('open-doorway')
+    expect(materialForOpening('door')).toBe('door-solid-wood')
+    expect(materialForOpening('fireplace')).toBeNull()
+    expect(() => getMaterial('unobtainium')).toThrow("unknown material id 'unobtainium'")
+  })
+})
