@@ -2,9 +2,9 @@ import nodemailer, { type Transporter } from 'nodemailer'
 import { QueryTypes } from 'sequelize'
 import { config } from '../config'
 import { db } from '../db/sequelize'
-import { enqueue, jobs } from '../jobs/queue'
+import { jobs } from '../jobs/queue'
 import { log } from '../lib/log'
-import { DELIVER_QUEUE, DELIVERY_POLICY, MAX_ATTEMPTS, ensureMailQueues } from './queues'
+import { DELIVER_QUEUE, DELIVERY_POLICY, MAX_ATTEMPTS, enqueueInTransaction, ensureMailQueues } from './queues'
 import { mailDomain } from './outbox'
 
 /**
@@ -154,7 +154,7 @@ export async function sweepOutbox(opts: { quietSeconds?: number; limit?: number 
     const job = row.job_id ? await boss.getJobById(DELIVER_QUEUE, row.job_id) : null
     if (job && LIVE_STATES.has(job.state)) continue
     await sequelize.transaction(async (t) => {
-      const jobId = await enqueue(DELIVER_QUEUE, { outboxId: row.id }, { transaction: t })
+      const jobId = await enqueueInTransaction(DELIVER_QUEUE, { outboxId: row.id }, t)
       const updated = await sequelize.query(
         `UPDATE email_outbox SET job_id = $2, updated_at = now() WHERE id = $1 AND status = 'queued' AND job_id IS NOT DISTINCT FROM $3::uuid RETURNING id`,
         { bind: [row.id, jobId, row.job_id], transaction: t, type: QueryTypes.SELECT },

@@ -25,6 +25,7 @@ export type InboundResult = { accepted: true; caseId: string; messageId?: string
 export type AppendReply = (input: { caseId: string; userId: string; body: string }) => Promise<{ id?: string } | unknown>
 
 const TOKEN = /^[A-Za-z0-9_-]{16,64}$/
+const MAX_BODY = 20_000
 
 function rawAddress(s: string): string | null {
   const angle = /<\s*([^<>\s]+@[^<>\s]+)\s*>/.exec(s)
@@ -154,8 +155,10 @@ export async function handleInboundEmail(mail: InboundEmail, opts: { via?: 'smtp
   if (mail.autoSubmitted && mail.autoSubmitted.trim().toLowerCase() !== 'no') return reject('auto_reply', c.id)
 
   const source = mail.text?.trim() ? mail.text : mail.html ? htmlToReplyText(mail.html) : ''
-  const body = stripQuotedReply(source)
-  if (!body) return reject('empty_reply', c.id)
+  const stripped = stripQuotedReply(source)
+  if (!stripped) return reject('empty_reply', c.id)
+  // A thread message holds at most 20 000 characters (messageSchema in shared/schemas/case.ts).
+  const body = stripped.length > MAX_BODY ? `${stripped.slice(0, MAX_BODY - 40).trimEnd()}\n\n[… shortened: the e-mail was longer]` : stripped
 
   let appended: unknown
   try {

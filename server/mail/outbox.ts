@@ -3,9 +3,8 @@ import { QueryTypes, type Transaction } from 'sequelize'
 import { z } from 'zod'
 import { config } from '../config'
 import { db } from '../db/sequelize'
-import { enqueue } from '../jobs/queue'
 import { CASE_KINDS, ESSENTIAL_KINDS, canonicalVars, renderEmail, type EmailKind } from './templates'
-import { DELIVER_QUEUE, ensureMailQueues } from './queues'
+import { DELIVER_QUEUE, enqueueInTransaction, ensureMailQueues } from './queues'
 
 export interface QueueEmailInput {
   /** Recipient address. */
@@ -80,7 +79,7 @@ export async function queueEmail(input: QueueEmailInput, opts: { transaction?: T
   const replyTo = CASE_KINDS.has(input.kind) && replyToken ? replyAddress(replyToken) : null
 
   await ensureMailQueues()
-  const jobId = await enqueue(DELIVER_QUEUE, { outboxId: id }, { transaction: t })
+  const jobId = await enqueueInTransaction(DELIVER_QUEUE, { outboxId: id }, t)
   await sequelize.query(
     `INSERT INTO email_outbox (id, to_address, to_user_id, kind, case_id, subject, html, text, reply_to, message_id, job_id)
      VALUES ($1, $2, $3, $4, $5, $6, $7, $8, $9, $10, $11)`,
