@@ -87,7 +87,7 @@ export function analyzeImpulseResponse(samples: Float32Array | Float64Array, sam
 }
 
 export interface AnalyzedReflection extends MeasuredReflection {
-  /** inside the reflection window (arrives within maxDelayMs, louder than minLevelDb) */
+  /** inside the reflection window (arrives within windowMs, louder than thresholdDb) */
   inWindow: boolean
   /** the predicted first-order reflection it most probably is, when predictions were given */
   match: ReflectionMatch | null

@@ -158,23 +158,12 @@ export function findReflections(etc: EnergyTimeCurve, opts: ReflectionSearch = {
   })
 }
 
-/** A reflection window: reflections arriving within maxDelayMs and louder than minLevelDb are flagged. */
-export interface ReflectionWindow {
-  /** ms; default 20 */
-  maxDelayMs: number
-  /** dB re direct; default −20 */
-  minLevelDb: number
-}
-
 /**
- * Default reflection window: within 20 ms of the direct sound, louder than −20 dB.
- * Common practice, no source (REFERENCES.md, Targets: 15–20 dB down within about 20 ms).
+ * The reflection window is the room engine's own (shared/acoustics: within `windowMs`,
+ * louder than `thresholdDb`, defaults 20 ms and −20 dB), so measured and predicted
+ * reflections are flagged alike.
  */
-export const DEFAULT_REFLECTION_WINDOW: ReflectionWindow = { maxDelayMs: 20, minLevelDb: -20 }
-
-export function inReflectionWindow(r: MeasuredReflection, window: ReflectionWindow = DEFAULT_REFLECTION_WINDOW): boolean {
-  return r.delayMs <= window.maxDelayMs && r.levelDb > window.minLevelDb
-}
+export { DEFAULT_REFLECTION_WINDOW, inReflectionWindow, type ReflectionWindow } from '../acoustics/reflections'
 
 /** A predicted first-order reflection, as the room engine's `firstReflections` gives it. */
 export interface PredictedReflection {

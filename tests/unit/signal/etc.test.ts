@@ -1,5 +1,6 @@
 import { describe, expect, it } from 'vitest'
-import { analyzeImpulseResponse, analyzeMeasurement, energyTimeCurve, findReflections, inReflectionWindow, matchReflections } from '../../../shared/signal/index'
+import { DEFAULT_REFLECTION_WINDOW as ENGINE_WINDOW } from '../../../shared/acoustics/index'
+import { analyzeImpulseResponse, analyzeMeasurement, DEFAULT_REFLECTION_WINDOW, energyTimeCurve, findReflections, inReflectionWindow, matchReflections } from '../../../shared/signal/index'
 import { addPulse, exponentialDecay } from './synthetic'
 
 const fs = 48000
@@ -64,12 +65,13 @@ describe('energy-time curve and reflections', () => {
     expect(found[0].levelDb).toBeCloseTo(-6.02, 0)
   })
 
-  it('flags reflections inside the window (default 20 ms, −20 dB; settable)', () => {
+  it('flags reflections inside the room engine\'s reflection window (default 20 ms, −20 dB; settable)', () => {
+    expect(DEFAULT_REFLECTION_WINDOW).toBe(ENGINE_WINDOW)
     expect(inReflectionWindow({ delayMs: 9.87, levelDb: -12 })).toBe(true)
     expect(inReflectionWindow({ delayMs: 17.3, levelDb: -21 })).toBe(false)
     expect(inReflectionWindow({ delayMs: 25, levelDb: -5 })).toBe(false)
-    expect(inReflectionWindow({ delayMs: 25, levelDb: -5 }, { maxDelayMs: 30, minLevelDb: -20 })).toBe(true)
-    const full = analyzeMeasurement(roomLike(), fs, { reflectionWindow: { minLevelDb: -15 } })
+    expect(inReflectionWindow({ delayMs: 25, levelDb: -5 }, { windowMs: 30, thresholdDb: -20 })).toBe(true)
+    const full = analyzeMeasurement(roomLike(), fs, { reflectionWindow: { thresholdDb: -15 } })
     const flagged = full.reflections.filter((r) => r.inWindow).map((r) => Math.round(r.delayMs))
     expect(flagged.sort((a, b) => a - b)).toEqual([2, 4, 10])
   })
