@@ -73,8 +73,9 @@ export class S3Storage implements Storage {
         },
       }),
     )
-    // pipe() does not forward errors: a failing source must fail the upload.
-    body.once('error', (err) => counted.destroy(err))
+    // pipe() does not forward errors: a failing source must fail the upload, with its own reason.
+    let sourceError: Error | undefined
+    body.once('error', (err) => counted.destroy((sourceError = err)))
     const upload = new Upload({
       client: this.client,
       params: { Bucket: this.bucket, Key: key, Body: counted, ContentType: opts?.contentType },
@@ -82,7 +83,11 @@ export class S3Storage implements Storage {
       queueSize: 2,
       leavePartsOnError: false,
     })
-    await upload.done()
+    try {
+      await upload.done()
+    } catch (err) {
+      throw sourceError ?? err
+    }
     return { size }
   }
 

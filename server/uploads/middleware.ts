@@ -163,19 +163,25 @@ class StreamingEngine implements StorageEngine {
       if (head.length > limit) throw tooLarge(sniffed.kind, limit)
       key = `${this.prefix}/${randomUUID()}.${EXTENSION[sniffed.format]}`
       let size = head.length
+      let refused: AppError | undefined
       const body = Readable.from(
         (async function* () {
           yield head
           if (ended) return
-          for await (const chunk of source) {
+          // destroyOnReturn: false, or stopping early would destroy the part with an AbortError that
+          // multer reports before our own reason; the catch below destroys it quietly instead
+          for await (const chunk of source.iterator({ destroyOnReturn: false })) {
             size += (chunk as Buffer).length
-            if (size > limit) throw tooLarge(sniffed.kind, limit)
+            if (size > limit) throw (refused = tooLarge(sniffed.kind, limit))
             yield chunk as Buffer
           }
         })(),
         { objectMode: false },
       )
-      const stored = await store.put(key, body, { contentType: sniffed.mime })
+      // a driver may report its own abort rather than the reason the body stopped: keep ours
+      const stored = await store.put(key, body, { contentType: sniffed.mime }).catch((err) => {
+        throw refused ?? err
+      })
       return {
         key,
         size: stored.size,
@@ -195,12 +201,12 @@ class StreamingEngine implements StorageEngine {
 }
 
 /** Turns multer's and busboy's errors into the product's AppErrors. */
-function translate(err: unknown, field: string): unknown {
+function translate(err: unknown, field: string, largest: number): unknown {
   if (err instanceof AppError) return err
   if (err instanceof MulterError) {
     switch (err.code) {
       case 'LIMIT_FILE_SIZE':
-        return new AppError('That file is too large', { status: 413, code: 'too_large' })
+        return new AppError(`That file is larger than ${mbText(largest)}, the most Roomwright accepts`, { status: 413, code: 'too_large' })
       case 'LIMIT_FILE_COUNT':
         return new AppError('Send one file per request', { status: 400, code: 'too_many_files' })
       case 'LIMIT_UNEXPECTED_FILE':
@@ -231,12 +237,13 @@ export function uploadFile(opts: UploadOptions = {}): RequestHandler {
   const largest = Math.max(...kinds.map((k) => limits[k]))
   const parse = multer({
     storage: new StreamingEngine(target, kinds, limits, prefix),
-    limits: { files: 1, fileSize: largest, fields: 20, fieldSize: 64 * 1024, parts: 25, headerPairs: 200 },
+    // busboy's own cut-off sits 1 MB past ours so the engine's per-kind 413 is the one reported
+    limits: { files: 1, fileSize: largest + MB, fields: 20, fieldSize: 64 * 1024, parts: 25, headerPairs: 200 },
     defParamCharset: 'utf8',
   }).single(field)
   return (req, res, next) => {
     parse(req, res, (err?: unknown) => {
-      if (err) return next(translate(err, field))
+      if (err) return next(translate(err, field, largest))
       if (!req.file && opts.required !== false)
         return next(new AppError(`Attach a file in the multipart form field "${field}"`, { status: 400, code: 'missing_file' }))
       next()
