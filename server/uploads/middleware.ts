@@ -30,9 +30,7 @@ export interface UploadedFile {
 }
 
 declare global {
-  // eslint-disable-next-line @typescript-eslint/no-namespace
   namespace Express {
-    // eslint-disable-next-line @typescript-eslint/no-namespace
     namespace Multer {
       interface File {
         key: string
@@ -61,7 +59,7 @@ export interface UploadOptions {
 
 const EXTENSION: Record<UploadFormat, string> = { jpeg: 'jpg', png: 'png', webp: 'webp', heic: 'heic', wav: 'wav', text: 'txt' }
 const ACCEPTED: Record<UploadKind, string> = {
-  photo: 'photos as JPEG, PNG or WebP' ,
+  photo: 'photos as JPEG, PNG or WebP',
   measurement: 'measurements as WAV or a plain-text frequency response',
 }
 
