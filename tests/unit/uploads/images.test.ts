@@ -74,7 +74,7 @@ describe('makeThumbnail', () => {
   })
 
   it('a truncated JPEG (header fine, data cut in half) answers 415, not a half-grey thumbnail', async () => {
-    const full = await sharp({ create: { width: 900, height: 600, channels: 3, noise: { type: 'gaussian', mean: 128, sigma: 40 } } }).jpeg().toBuffer()
+    const full = await sharp({ create: { width: 900, height: 600, channels: 3, background: '#808080', noise: { type: 'gaussian', mean: 128, sigma: 40 } } }).jpeg().toBuffer()
     const key = await stored(full.subarray(0, Math.floor(full.length / 2)), 'jpg')
     await expect(makeThumbnail(key, { storage })).rejects.toMatchObject({ status: 415 })
     expect(await storage.exists(thumbnailKey(key))).toBe(false)
