@@ -362,7 +362,7 @@ export interface ModalSystem {
   /** mode indices, flattened: nx, ny, nz per mode */
   n: Int32Array
   modeCount: number
-  /** H_m(f) = (1/K_m) / (ω² − ω_m² − 2jδ_m·ω_m), frequency-major: [f·M + m] */
+  /** H_m(f) = (1/K_m) / (ω² − ω_m² − 2jδ_m·ω_m), mode-major: [m·F + f] */
   hRe: Float64Array
   hIm: Float64Array
   dims: [number, number, number]
@@ -424,17 +424,20 @@ export function buildModalSystem(room: RoomBox, options: ModalResponseOptions = 
   })
   const hRe = new Float64Array(nPoints * M)
   const hIm = new Float64Array(nPoints * M)
-  for (let f = 0; f < nPoints; f++) {
-    const w = 2 * Math.PI * freqsHz[f]
-    const w2 = w * w
-    const base = f * M
-    for (let i = 0; i < M; i++) {
+  const w2s = new Float64Array(nPoints)
+  for (let f = 0; f < nPoints; f++) w2s[f] = (2 * Math.PI * freqsHz[f]) ** 2
+  for (let i = 0; i < M; i++) {
+    const base = i * nPoints
+    const wn = wn2[i]
+    const b = damp[i]
+    const b2 = b * b
+    const k = invK[i]
+    for (let f = 0; f < nPoints; f++) {
       // 1 / (a − jb) = (a + jb) / (a² + b²)
-      const a = w2 - wn2[i]
-      const b = damp[i]
-      const s = invK[i] / (a * a + b * b)
-      hRe[base + i] = a * s
-      hIm[base + i] = b * s
+      const a = w2s[f] - wn
+      const s = k / (a * a + b2)
+      hRe[base + f] = a * s
+      hIm[base + f] = b * s
     }
   }
   return {
@@ -466,20 +469,20 @@ export function sourceWeights(sys: ModalSystem, sources: readonly Point[]): Floa
 export function powerFromWeights(sys: ModalSystem, weights: Float64Array): Float64Array {
   const F = sys.freqsHz.length
   const M = sys.modeCount
-  const out = new Float64Array(F)
-  for (let f = 0; f < F; f++) {
-    let re = 0
-    let im = 0
-    const base = f * M
-    for (let i = 0; i < M; i++) {
-      const w = weights[i]
-      if (w === 0) continue
-      re += w * sys.hRe[base + i]
-      im += w * sys.hIm[base + i]
+  const re = new Float64Array(F)
+  const im = new Float64Array(F)
+  const { hRe, hIm } = sys
+  for (let i = 0; i < M; i++) {
+    const w = weights[i]
+    if (Math.abs(w) < 1e-12) continue
+    const base = i * F
+    for (let f = 0; f < F; f++) {
+      re[f] += w * hRe[base + f]
+      im[f] += w * hIm[base + f]
     }
-    out[f] = re * re + im * im
   }
-  return out
+  for (let f = 0; f < F; f++) re[f] = re[f] * re[f] + im[f] * im[f]
+  return re
 }
 
 /** @internal Spread figures of a power curve on the system's grid. */

@@ -63,19 +63,21 @@ function groupTransfer(sys: ModalSystem, weights: Float64Array, byY: boolean) {
   const G = gx.length
   const F = sys.freqsHz.length
   const M = sys.modeCount
+  // group-major: [g·F + f]
   const cRe = new Float64Array(F * G)
   const cIm = new Float64Array(F * G)
-  for (let f = 0; f < F; f++) {
-    const base = f * M
-    const out = f * G
-    for (let i = 0; i < M; i++) {
-      const w = weights[i]
-      if (w === 0) continue
-      cRe[out + groupOf[i]] += w * sys.hRe[base + i]
-      cIm[out + groupOf[i]] += w * sys.hIm[base + i]
+  const { hRe, hIm } = sys
+  for (let i = 0; i < M; i++) {
+    const w = weights[i]
+    if (Math.abs(w) < 1e-12) continue // nodal planes (e.g. odd width modes on the centre line)
+    const src = i * F
+    const out = groupOf[i] * F
+    for (let f = 0; f < F; f++) {
+      cRe[out + f] += w * hRe[src + f]
+      cIm[out + f] += w * hIm[src + f]
     }
   }
-  return { G, gx, gy, cRe, cIm }
+  return { G, gx, gy, cRe, cIm, re: new Float64Array(F), im: new Float64Array(F) }
 }
 
 function powerAt(sys: ModalSystem, grp: ReturnType<typeof groupTransfer>, x: number, y: number | null, power: Float64Array): Float64Array {
@@ -84,16 +86,19 @@ function powerAt(sys: ModalSystem, grp: ReturnType<typeof groupTransfer>, x: num
   const shape = new Float64Array(G)
   for (let g = 0; g < G; g++) shape[g] = Math.cos((gx[g] * Math.PI * x) / lx) * (y === null ? 1 : Math.cos((gy[g] * Math.PI * y) / ly))
   const F = sys.freqsHz.length
-  for (let f = 0; f < F; f++) {
-    let re = 0
-    let im = 0
-    const base = f * G
-    for (let g = 0; g < G; g++) {
-      re += shape[g] * cRe[base + g]
-      im += shape[g] * cIm[base + g]
+  const { re, im } = grp
+  re.fill(0)
+  im.fill(0)
+  for (let g = 0; g < G; g++) {
+    const sh = shape[g]
+    if (Math.abs(sh) < 1e-12) continue
+    const base = g * F
+    for (let f = 0; f < F; f++) {
+      re[f] += sh * cRe[base + f]
+      im[f] += sh * cIm[base + f]
     }
-    power[f] = re * re + im * im
   }
+  for (let f = 0; f < F; f++) power[f] = re[f] * re[f] + im[f] * im[f]
   return power
 }
 
