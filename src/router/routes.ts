@@ -3,6 +3,7 @@ import {
   mdiChartBoxOutline,
   mdiFloorPlan,
   mdiFolderOutline,
+  mdiMicrophoneOutline,
   mdiTrayFull,
 } from '@mdi/js'
 import type {
@@ -20,12 +21,25 @@ export const routeNames = [
   'sign-in',
   'sign-up',
   'my-cases',
+  'case-new',
+  'case',
+  'measuring-guide',
   'rooms',
+  'room-new',
+  'room-edit',
   'dashboard',
   'queue',
+  'case-workspace',
   'team',
   'not-found',
 ] as const
+
+/** Params of the routes that have them; every other route takes none. */
+interface RouteParamsByName {
+  case: { id: string }
+  'case-workspace': { id: string }
+  'room-edit': { id: string }
+}
 
 /** Navigate by these names only: `router.push({ name: 'queue' })`. A mistyped name fails the type check. */
 export type RouteName = (typeof routeNames)[number]
@@ -45,7 +59,11 @@ declare module 'vue-router' {
   }
 
   interface TypesConfig {
-    RouteNamedMap: { [Name in RouteName]: RouteRecordInfo<Name, string, RouteParamsRawGeneric, RouteParamsGeneric> }
+    RouteNamedMap: {
+      [Name in RouteName]: Name extends keyof RouteParamsByName
+        ? RouteRecordInfo<Name, string, RouteParamsByName[Name], RouteParamsByName[Name]>
+        : RouteRecordInfo<Name, string, RouteParamsRawGeneric, RouteParamsGeneric>
+    }
   }
 }
 
@@ -94,10 +112,34 @@ export function buildRoutes(): NamedRoute[] {
       meta: { title: 'My cases', roles: ['listener'], nav: { label: 'My cases', icon: mdiFolderOutline } },
     },
     {
+      path: '/cases/new',
+      name: 'case-new',
+      component: () => import('../pages/CaseNewPage.vue'),
+      meta: { title: 'Open a case', roles: ['listener'] },
+    },
+    {
+      path: '/cases/:id',
+      name: 'case',
+      component: () => import('../pages/CasePage.vue'),
+      meta: { title: 'Case', roles: ['listener'] },
+    },
+    {
       path: '/rooms',
       name: 'rooms',
       component: () => import('../pages/RoomsPage.vue'),
       meta: { title: 'My rooms', roles: ['listener'], nav: { label: 'My rooms', icon: mdiFloorPlan } },
+    },
+    {
+      path: '/rooms/new',
+      name: 'room-new',
+      component: () => import('../pages/RoomEditorPage.vue'),
+      meta: { title: 'Describe a room', roles: ['listener'] },
+    },
+    {
+      path: '/rooms/:id',
+      name: 'room-edit',
+      component: () => import('../pages/RoomEditorPage.vue'),
+      meta: { title: 'Room', roles: ['listener'] },
     },
     {
       path: '/dashboard',
@@ -112,10 +154,26 @@ export function buildRoutes(): NamedRoute[] {
       meta: { title: 'Case queue', roles: ['advisor', 'supervisor'], nav: { label: 'Case queue', icon: mdiTrayFull } },
     },
     {
+      path: '/desk/cases/:id',
+      name: 'case-workspace',
+      component: () => import('../pages/CaseWorkspacePage.vue'),
+      meta: { title: 'Case', roles: ['advisor', 'supervisor'] },
+    },
+    {
       path: '/team',
       name: 'team',
       component: () => import('../pages/TeamPage.vue'),
       meta: { title: 'Team', roles: ['supervisor'], nav: { label: 'Team', icon: mdiAccountGroupOutline } },
+    },
+    {
+      path: '/guide/measuring',
+      name: 'measuring-guide',
+      component: () => import('../pages/MeasuringGuidePage.vue'),
+      meta: {
+        title: 'Measuring at home',
+        roles: ['listener', 'advisor', 'supervisor'],
+        nav: { label: 'Measuring guide', icon: mdiMicrophoneOutline },
+      },
     },
     {
       path: '/:pathMatch(.*)*',
