@@ -2,6 +2,8 @@
  * Roomwright's room engine: pure TypeScript (no I/O, no DOM), shared by the server's triage and the
  * browser preview. The names of ENGINE.md are the contract; the rest are additions beside it.
  */
+import { MATERIALS } from './materials'
+
 export type { Surface, RoomBox, Point, Opening, Treatment, Furnishing, OctaveBandHz } from './types'
 export { SURFACES, OCTAVE_BANDS_HZ, roomVolume, roomSurfaceArea, surfaceArea, distanceToSurface } from './types'
 
@@ -50,7 +52,6 @@ export type {
 } from './triage'
 export { assertRoom, assertPointInRoom, assertOpening } from './validate'
 
-import { MATERIALS } from './materials'
 /** Ids of every row of the materials table. */
 export function materialIds(): string[] {
   return MATERIALS.map((m) => m.id)

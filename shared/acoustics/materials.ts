@@ -99,6 +99,7 @@ export function hasMaterial(id: string): boolean {
 /** Material used for an opening of a given kind, or null to keep the wall's own material. */
 export function materialForOpening(kind: string): string | null {
   const k = kind.toLowerCase()
+  if (k.includes('shelv') || k.includes('alcove') || k.includes('fireplace')) return null
   if (k.includes('window') || k.includes('glaz')) return 'window-glass'
   if (k.includes('doorway') || k.includes('open') || k.includes('arch') || k.includes('passage')) return 'open-doorway'
   if (k.includes('door')) return 'door-solid-wood'

@@ -1,4 +1,5 @@
 import { boundaryNotches } from './boundaries'
+import { materialForOpening } from './materials'
 import { analyzeModes, modePressure } from './modes'
 import { reflectionPanel } from './reflections'
 import type { Opening, Point, RoomBox, Surface, Treatment } from './types'
@@ -283,7 +284,7 @@ export function setupFlags(input: SetupFlagInput): SetupFlag[] {
   ]
   if (unmatched.length) {
     const kinds2 = unmatched.map((o) => `a ${o.kind} on the ${o.wall} wall (${m2(o.from)}–${m2(o.to)} from the front)`)
-    add('opening-asymmetry', unmatched.some((o) => o.kind.includes('open') || o.kind === 'alcove') ? 'warning' : 'info',
+    add('opening-asymmetry', unmatched.some((o) => materialForOpening(o.kind) === 'open-doorway' || o.kind === 'alcove') ? 'warning' : 'info',
       `Between the speakers and your seat there is ${kinds2.join(' and ')} with nothing matching it on the other side. The two sides of the room then reflect and hold bass differently, which can pull the stereo image sideways. A curtain or panel on the opposite side, or over the opening, restores the balance.`)
   }
 

@@ -43,6 +43,8 @@ describe('materials table', () => {
     expect(materialForOpening('open-doorway')).toBe('open-doorway')
     expect(materialForOpening('door')).toBe('door-solid-wood')
     expect(materialForOpening('fireplace')).toBeNull()
+    expect(materialForOpening('open-shelving')).toBeNull()
+    expect(materialForOpening('alcove')).toBeNull()
     expect(() => getMaterial('unobtainium')).toThrow("unknown material id 'unobtainium'")
   })
 })
