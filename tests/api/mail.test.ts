@@ -179,6 +179,13 @@ describe('POST /api/inbound/email (a provider\'s inbound webhook)', () => {
     const res = await post(mail('desk@roomwright.test', listener.user.email, 'hello'), SECRET).expect(403)
     expect(res.body.error.code).toBe('no_reply_address')
   })
+  it('a reply to a closed case answers 422 case_closed and is logged', async () => {
+    const { caseId, token, listener } = await listenerWithCase()
+    await listener.c.patch(`/api/cases/${caseId}`, { status: 'closed', fromStatus: 'submitted' }).expect(200)
+    const res = await post(mail(`reply+${token}@${REPLY_DOMAIN}`, listener.user.email, 'One more thing about the rug.'), SECRET).expect(422)
+    expect(res.body.error.code).toBe('case_closed')
+    expect(await inboundLog(listener.user.email)).toEqual([{ status: 'rejected', reason: 'case_closed', case_id: caseId, via: 'webhook' }])
+  })
   it('a malformed body answers 400 with field paths', async () => {
     const res = await post({ to: 'reply+x@y', subject: 5 }, SECRET).expect(400)
     expect(res.body.error.fields.map((f: { path: string }) => f.path).sort()).toEqual(['from', 'subject'])
