@@ -37,9 +37,7 @@ export const caseSelect = `
   SELECT c.id, c.title, c.description, c.answers, c.status, c.score, c.listener_id, l.name AS listener_name,
          c.assignee_id, a.name AS assignee_name, c.room_id, r.name AS room_name, c.room_revision,
          (rr.body->>'length')::float AS length, (rr.body->>'width')::float AS width, (rr.body->>'height')::float AS height,
-         (SELECT jsonb_agg(jsonb_build_object('id', f->>'id', 'severity', f->>'severity'))
-            FROM triage_snapshots ts, jsonb_array_elements(ts.body->'flags') f
-           WHERE ts.id = (SELECT max(id) FROM triage_snapshots WHERE case_id = c.id)) AS flags,
+         c.flags,
          c.created_at, c.submitted_at, c.waiting_since, c.last_activity_at, c.reply_token
     FROM cases c
     JOIN users l ON l.id = c.listener_id
@@ -115,8 +113,8 @@ export async function touchAfterMessage(id: string, by: 'team' | 'listener', t: 
   }
 }
 
-export async function setScore(id: string, score: number, flagIds: string[], t?: Transaction) {
-  await q('UPDATE cases SET score = $2, flag_ids = $3 WHERE id = $1 RETURNING id', [id, score, flagIds], t)
+export async function setScore(id: string, score: number, flags: { id: string; severity: string }[], t?: Transaction) {
+  await q('UPDATE cases SET score = $2, flag_ids = $3, flags = $4 WHERE id = $1 RETURNING id', [id, score, flags.map((f) => f.id), JSON.stringify(flags)], t)
 }
 
 export async function openCasesForRoom(roomId: string, t?: Transaction): Promise<{ id: string; status: CaseStatus }[]> {

@@ -16,7 +16,7 @@ function migrator() {
     .filter((f) => /^\d{4}-[a-z0-9-]+\.ts$/.test(f))
     .sort()
   const sequelize = db()
-  return new Umzug({
+  return new Umzug<QueryInterface>({
     migrations: files.map((file) => ({
       name: file.replace(/\.ts$/, ''),
       up: async ({ context }) => ((await import(pathToFileURL(join(migrationsDir, file)).href)) as Migration).up({ context }),

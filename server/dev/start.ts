@@ -54,6 +54,9 @@ async function main() {
       if (seeded.length) say(`Seeded the demo scenario: ${seeded.join(', ')}`)
     }
     if (!noClient) buildClientIfStale(say)
+    const { maybeStartFakeSmtp } = await import('../mail/fake-smtp')
+    const smtp = await maybeStartFakeSmtp()
+    if (smtp) say(`Fake mail server on 127.0.0.1:${smtp.port}: supervisors read it at /mailbox`)
     const { startServer } = await import('../server')
     const server = await startServer()
     const { DEMO_PASSWORD, demoPeople } = await import('../seed/people')
@@ -70,8 +73,7 @@ async function main() {
         if (stopping) return
         stopping = true
         say('Stopping…')
-        server
-          .close()
+        Promise.all([server.close(), smtp?.stop()])
           .catch((e) => console.error(e))
           .finally(() => {
             stopCluster()

@@ -45,6 +45,7 @@ async function main(): Promise<number> {
         STORAGE_DIR: join(home, 'storage'),
         CHROMIUM_PATH: CHROMIUM,
         TEST_TMP: home,
+        LOGIN_RATE_LIMIT: process.env.LOGIN_RATE_LIMIT ?? '100000',
       },
     })
     let passed = 0, failed = 0, skipped = 0

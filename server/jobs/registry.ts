@@ -3,4 +3,4 @@
  * default, or a separate worker process past one machine). Each feature adds its import here.
  */
 import '../mail/worker'
-export {}
+import '../services/measurements'

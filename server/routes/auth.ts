@@ -16,7 +16,7 @@ function signIn(req: Request, user: User): Promise<void> {
     req.session.regenerate((err) => {
       if (err) return reject(err)
       req.session.csrfToken = token
-      req.login(user, { keepSessionInfo: true }, (e) => (e ? reject(e) : resolve()))
+      req.login(user, { keepSessionInfo: true } as passport.LogInOptions, (e) => (e ? reject(e) : resolve()))
     })
   })
 }

@@ -5,6 +5,8 @@ import { healthRouter } from './health'
 import { roomsRouter } from './rooms'
 import { casesRouter } from './cases'
 import { savedFiltersRouter, snippetsRouter } from './team'
+import { caseFilesRouter, filesRouter } from './files'
+import { mailRouter } from './mail'
 
 /** Every API router, mounted under /api. Each feature adds its line here. */
 export function apiRouter(): Router {
@@ -14,6 +16,9 @@ export function apiRouter(): Router {
   router.use('/users', usersRouter())
   router.use('/rooms', roomsRouter())
   router.use('/cases', casesRouter())
+  router.use('/cases', caseFilesRouter())
+  router.use('/files', filesRouter())
+  router.use('/', mailRouter())
   router.use('/snippets', snippetsRouter())
   router.use('/saved-filters', savedFiltersRouter())
   return router

@@ -3,20 +3,36 @@ import { db } from '../db/sequelize'
 import { findCase, setScore } from '../data/cases'
 import { findRoom } from '../data/rooms'
 import { insertEvent } from '../data/events'
-import { computeRoomAnalysis, ENGINE_VERSION } from '../../shared/acoustics'
+import { computeRoomAnalysis, ENGINE_VERSION, type RoomAnalysis, type Reflection } from '../../shared/acoustics'
 import type { Room } from '../../shared/schemas/room'
 import { notFound } from '../errors'
+
+/** The engine's Reflection plus which pair it belongs to; second-order entries name both surfaces. */
+export type TriageReflection = Reflection & { order: 1 | 2; speaker: string; seat: string; inWindow: boolean; surfaces?: [string, string] }
+
+export function flattenReflections(pairs: RoomAnalysis['reflections']): TriageReflection[] {
+  const out: TriageReflection[] = []
+  for (const p of pairs) {
+    for (const r of p.first) out.push({ surface: r.surface, point: r.point, pathLength: r.pathLength, delayMs: r.delayMs, levelDb: r.levelDb, order: 1, speaker: p.speaker, seat: p.seat, inWindow: r.inWindow })
+    for (const r of p.second) out.push({ surface: r.surfaces[1], surfaces: r.surfaces, point: r.points[1], pathLength: r.pathLength, delayMs: r.delayMs, levelDb: r.levelDb, order: 2, speaker: p.speaker, seat: p.seat, inWindow: r.inWindow })
+  }
+  return out
+}
 
 export interface TriageSnapshot {
   engineVersion: string
   roomRevision: number
-  modes: unknown[]
-  modeAnalysis: unknown
-  reflections: unknown[]
-  notches: unknown[]
-  reverberation: unknown
-  flags: { id: string; severity: 'info' | 'warning' | 'problem'; message: string }[]
-  seat: unknown
+  room: RoomAnalysis['room']
+  modes: RoomAnalysis['modes']
+  modeAnalysis: RoomAnalysis['modeAnalysis']
+  /** every first- and second-order reflection per speaker–seat pair, flagged against the window */
+  reflections: TriageReflection[]
+  reflectionWindow: RoomAnalysis['reflectionWindow']
+  reflectionPairs: RoomAnalysis['reflections']
+  notches: RoomAnalysis['notches']
+  reverberation: RoomAnalysis['reverberation']
+  flags: RoomAnalysis['flags']
+  seat: RoomAnalysis['seat']
   score: number
   scoreParts: { label: string; points: number }[]
   computedAt: string
@@ -58,9 +74,12 @@ export async function computeAndStoreTriage(caseId: string, t?: Transaction): Pr
   const snapshot: TriageSnapshot = {
     engineVersion: ENGINE_VERSION,
     roomRevision: room.revision,
+    room: a.room,
     modes: a.modes,
     modeAnalysis: a.modeAnalysis,
-    reflections: a.reflections,
+    reflections: flattenReflections(a.reflections),
+    reflectionWindow: a.reflectionWindow,
+    reflectionPairs: a.reflections,
     notches: a.notches,
     reverberation: a.reverberation,
     flags: a.flags,
@@ -73,7 +92,7 @@ export async function computeAndStoreTriage(caseId: string, t?: Transaction): Pr
     bind: [caseId, room.revision, ENGINE_VERSION, JSON.stringify(snapshot), score],
     transaction: t,
   })
-  await setScore(caseId, score, a.flags.map((f) => f.id), t)
+  await setScore(caseId, score, a.flags.map((f) => ({ id: f.id, severity: f.severity })), t)
   await insertEvent({ caseId, actorId: null, kind: 'triage', data: { roomRevision: room.revision, engineVersion: ENGINE_VERSION, score } }, t)
   return snapshot
 }
