@@ -9,6 +9,7 @@ import { log } from '../lib/log'
  * is given, so a job exists exactly when the change that asked for it was committed.
  */
 let boss: PgBoss | undefined
+const created = new Set<string>()
 let starting: Promise<PgBoss> | undefined
 
 export type JobHandler<T> = (job: { id: string; data: T }) => Promise<void>
@@ -27,6 +28,7 @@ export async function jobs(): Promise<PgBoss> {
     b.on('error', (e) => log.warn('job queue error', { err: String(e) }))
     await b.start()
     for (const [name, opts] of queueOptions) await b.createQueue(name, { name, ...opts })
+    for (const name of queueOptions.keys()) created.add(name)
     boss = b
     return b
   })()
@@ -45,8 +47,9 @@ export function registerWorker<T>(name: string, handler: JobHandler<T>, opts: Pg
 export async function startWorkers(): Promise<void> {
   const b = await jobs()
   for (const [name, { handler, opts }] of handlers) {
-    await b.work(name, { batchSize: 1, pollingIntervalSeconds: 1, ...opts }, async ([job]) => {
-      await handler({ id: job.id, data: job.data })
+    // pg-boss hands a batch; every job in it is run (a rejection fails the batch, so each is retried).
+    await b.work(name, { batchSize: 1, pollingIntervalSeconds: 1, ...opts }, async (batch) => {
+      for (const job of batch) await handler({ id: job.id, data: job.data })
     })
   }
 }
@@ -54,7 +57,8 @@ export async function startWorkers(): Promise<void> {
 function inTransaction(t: Transaction): PgBoss.Db {
   return {
     executeSql: async (text, values) => {
-      const rows = await db().query(text, { bind: values, transaction: t, type: QueryTypes.SELECT })
+      // pg-boss leaves unset options undefined; Sequelize's bind wants NULL for those.
+      const rows = await db().query(text, { bind: (values ?? []).map((v) => (v === undefined ? null : v)), transaction: t, type: QueryTypes.SELECT })
       return { rows: rows as unknown[] }
     },
   }
@@ -64,11 +68,17 @@ function inTransaction(t: Transaction): PgBoss.Db {
 export async function enqueue(name: string, data: object, opts: PgBoss.SendOptions & { transaction?: Transaction } = {}): Promise<string | null> {
   const { transaction, ...send } = opts
   const b = await jobs()
+  if (!created.has(name)) {
+    // A queue defined after pg-boss started (a module loaded late) is created on first use; idempotent.
+    await b.createQueue(name, { name, ...queueOptions.get(name) })
+    created.add(name)
+  }
   return b.send(name, data, { ...queueOptions.get(name), ...send, ...(transaction ? { db: inTransaction(transaction) } : {}) })
 }
 
 export async function stopJobs(): Promise<void> {
   const b = boss
   boss = undefined
+  created.clear()
   if (b) await b.stop({ graceful: true, wait: true, timeout: 10_000 })
 }

@@ -1,7 +1,5 @@
-import type PgBoss from 'pg-boss'
-import { QueryTypes, type Transaction } from 'sequelize'
-import { db } from '../db/sequelize'
-import { defineQueue, jobs } from '../jobs/queue'
+import type { Transaction } from 'sequelize'
+import { defineQueue, enqueue, jobs } from '../jobs/queue'
 
 /** The outgoing-mail queues and their retry policy. */
 export const DELIVER_QUEUE = 'mail-deliver'
@@ -43,19 +41,7 @@ export function forgetEnsuredQueues(): void {
   ensured = undefined
 }
 
-/**
- * Sends a job inside `t`. Same as enqueue(name, data, { transaction: t }) in server/jobs/queue.ts,
- * except that unset options go to PostgreSQL as NULL: pg-boss passes undefined for them, which
- * Sequelize's bind rejects ("Named bind parameter … has no value"), so enqueue with a transaction
- * fails today. Switch back to enqueue once its adapter maps undefined to null.
- */
+/** Sends a mail job inside `t`, with the delivery policy for delivery jobs. */
 export async function enqueueInTransaction(name: string, data: object, t: Transaction): Promise<string | null> {
-  const b = await jobs()
-  const adapter: PgBoss.Db = {
-    executeSql: async (text, values) => {
-      const rows = await db().query(text, { bind: (values ?? []).map((v) => (v === undefined ? null : v)), transaction: t, type: QueryTypes.SELECT })
-      return { rows: rows as unknown[] }
-    },
-  }
-  return b.send(name, data, { ...(name === DELIVER_QUEUE ? DELIVERY_POLICY : {}), db: adapter })
+  return enqueue(name, data, { ...(name === DELIVER_QUEUE ? DELIVERY_POLICY : {}), transaction: t })
 }
