@@ -1,0 +1,55 @@
+import { afterAll, beforeAll, describe, expect, it } from 'vitest'
+import type { Browser } from 'playwright-core'
+import { join } from 'node:path'
+import { launchBrowser, screenshotDir, signInAs, startProduct } from '../helpers/browser'
+import { makeUser } from '../helpers/api'
+import type { RunningServer } from '../../server/server'
+
+let server: RunningServer
+let browser: Browser
+beforeAll(async () => {
+  server = await startProduct()
+  browser = await launchBrowser()
+})
+afterAll(async () => {
+  await browser?.close()
+  await server?.close()
+})
+
+describe('signing in as each role', () => {
+  it.each([
+    ['listener', /\/cases$/],
+    ['advisor', /\/queue$/],
+    ['supervisor', /\/dashboard$/],
+  ] as const)('a %s lands on their own home page', async (role, path) => {
+    const user = await makeUser(role, `Browser ${role}`)
+    const context = await browser.newContext({ viewport: { width: 1280, height: 800 } })
+    const page = await signInAs(context, server.url, user.email, user.password)
+    await page.waitForURL(path, { timeout: 15_000 })
+    await expect.poll(() => page.getByTestId('page-title').first().textContent()).toBeTruthy()
+    await page.screenshot({ path: join(screenshotDir(), `home-${role}.png`) })
+    await context.close()
+  })
+
+  it('a signed-out visitor to the queue is sent to sign-in and comes back after signing in', async () => {
+    const user = await makeUser('advisor', 'Browser Redirect')
+    const context = await browser.newContext()
+    const page = await context.newPage()
+    await page.goto(`${server.url}/queue`)
+    await page.waitForURL(/\/sign-in\?redirect=/)
+    await page.getByTestId('signin-email').locator('input').fill(user.email)
+    await page.getByTestId('signin-password').locator('input').fill(user.password)
+    await page.getByTestId('signin-submit').click()
+    await page.waitForURL(/\/queue$/)
+    await context.close()
+  })
+
+  it('a wrong password shows the error banner and stays on sign-in', async () => {
+    const user = await makeUser('listener', 'Browser Wrong')
+    const context = await browser.newContext()
+    const page = await signInAs(context, server.url, user.email, 'definitely-not-it-123')
+    await expect.poll(() => page.getByTestId('signin-error').textContent()).toMatch(/do not match/i)
+    expect(page.url()).toMatch(/\/sign-in/)
+    await context.close()
+  })
+})
