@@ -3,12 +3,14 @@
  * scenario on first run, the client build, the local fake mail server, and one server process.
  * Ctrl-C stops the server and the cluster.
  */
-import { resolve } from 'node:path'
+import { join, resolve } from 'node:path'
 import { ClusterError, ensureDatabase, startCluster, type Cluster } from './cluster'
 import { buildClientIfStale } from './build-client'
 
 const say = (m: string) => console.log(`[roomwright] ${m}`)
 const noClient = process.argv.includes('--no-client')
+/** Where the embedded cluster and uploads live (git-ignored); RW_DATA_DIR moves it. */
+const dataDir = resolve(process.env.RW_DATA_DIR ?? '.data')
 
 async function main() {
   const { loadConfig, ConfigError } = await import('../config')
@@ -27,13 +29,13 @@ async function main() {
   const embedded = !process.env.DATABASE_URL
   if (embedded) {
     const port = Number(process.env.PGPORT_EMBEDDED ?? 5544)
-    cluster = await startCluster({ dir: resolve('.data/pg'), port, say })
+    cluster = await startCluster({ dir: join(dataDir, 'pg'), port, say })
     await ensureDatabase(cluster.url('postgres'), 'roomwright')
     process.env.DATABASE_URL = cluster.url('roomwright')
     process.env.FAKE_SMTP ??= 'on'
-    say(`PostgreSQL is running on 127.0.0.1:${port} (data in .data/pg)`)
+    say(`PostgreSQL is running on 127.0.0.1:${port} (data in ${join(dataDir, 'pg')})`)
   }
-  process.env.STORAGE_DIR ??= resolve('.data/storage')
+  process.env.STORAGE_DIR ??= join(dataDir, 'storage')
 
   const stopCluster = () => {
     if (cluster) {
