@@ -4,8 +4,8 @@ import { rateLimit } from 'express-rate-limit'
 import { validate } from '../middleware/validate'
 import { requireSignedIn, currentUser } from '../middleware/guards'
 import { csrfToken } from '../middleware/csrf'
-import { loginSchema, registerSchema, type User } from '../../shared/schemas/auth'
-import { registerListener } from '../services/auth'
+import { loginSchema, registerSchema, updatePreferencesSchema, type User } from '../../shared/schemas/auth'
+import { getPreferences, registerListener, setPreferences } from '../services/auth'
 import { AppError } from '../errors'
 import { config } from '../config'
 
@@ -59,5 +59,8 @@ export function authRouter(): Router {
   })
 
   router.get('/me', requireSignedIn, (req, res) => res.json(currentUser(req)))
+  router.get('/preferences', requireSignedIn, async (req, res) => res.json(await getPreferences(currentUser(req).id)))
+  router.patch('/preferences', requireSignedIn, validate(updatePreferencesSchema), async (req, res) =>
+    res.json(await setPreferences(currentUser(req).id, res.locals.body)))
   return router
 }

@@ -1,7 +1,7 @@
 import bcrypt from 'bcryptjs'
-import { findUserByEmail, findUserById, insertUser, toPublicUser } from '../data/users'
+import { findUserByEmail, findUserById, insertUser, toPublicUser, updateUser } from '../data/users'
 import { AppError, conflict } from '../errors'
-import type { CreateUserInput, RegisterInput, User } from '../../shared/schemas/auth'
+import type { CreateUserInput, Preferences, RegisterInput, User } from '../../shared/schemas/auth'
 
 /** bcrypt cost factor: 12 rounds in production (OWASP Password Storage Cheat Sheet: at least 10). */
 export const bcryptRounds = () => (process.env.NODE_ENV === 'production' ? 12 : 10)
@@ -40,4 +40,16 @@ export async function sessionUser(id: string): Promise<User | null> {
 export function assertRole(user: User | undefined, roles: User['role'][]): asserts user is User {
   if (!user) throw new AppError('Please sign in first', { status: 401, code: 'signed_out' })
   if (!roles.includes(user.role)) throw new AppError('Your role may not do that', { status: 403, code: 'forbidden' })
+}
+
+export async function getPreferences(userId: string): Promise<Preferences> {
+  const u = await findUserById(userId)
+  if (!u) throw new AppError('Please sign in first', { status: 401, code: 'signed_out' })
+  return { units: u.units, emailOptional: u.emailOptional }
+}
+
+export async function setPreferences(userId: string, patch: Partial<Preferences>): Promise<Preferences> {
+  const u = await updateUser(userId, patch)
+  if (!u) throw new AppError('Please sign in first', { status: 401, code: 'signed_out' })
+  return { units: u.units, emailOptional: u.emailOptional }
 }

@@ -37,3 +37,11 @@ export const userSchema = z.object({
 export type User = z.infer<typeof userSchema>
 
 export const csrfSchema = z.object({ token: z.string() })
+
+/** A person's own settings: units for room dimensions, and whether non-essential e-mails are welcome. */
+export const preferencesSchema = z.object({
+  units: z.enum(['metric', 'imperial']),
+  emailOptional: z.boolean(),
+})
+export type Preferences = z.infer<typeof preferencesSchema>
+export const updatePreferencesSchema = preferencesSchema.partial().refine((v) => Object.keys(v).length > 0, 'nothing to change')

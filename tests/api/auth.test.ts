@@ -122,3 +122,21 @@ describe('GET /api/health and unknown routes', () => {
     expect(res.headers['x-powered-by']).toBeUndefined()
   })
 })
+
+describe('GET/PATCH /api/auth/preferences', () => {
+  it('a listener switches to imperial units and turns off non-essential e-mails; the choice is kept', async () => {
+    const { c } = await signedIn('listener')
+    expect((await c.get('/api/auth/preferences').expect(200)).body).toEqual({ units: 'metric', emailOptional: true })
+    await c.patch('/api/auth/preferences', { units: 'imperial', emailOptional: false }).expect(200)
+    expect((await c.get('/api/auth/preferences').expect(200)).body).toEqual({ units: 'imperial', emailOptional: false })
+  })
+  it('an unknown unit answers 400 with the field path', async () => {
+    const { c } = await signedIn('listener')
+    const res = await c.patch('/api/auth/preferences', { units: 'cubits' }).expect(400)
+    expect(res.body.error.fields[0].path).toBe('units')
+  })
+  it('signed out answers 401', async () => {
+    const c = await client()
+    await c.get('/api/auth/preferences').expect(401)
+  })
+})
