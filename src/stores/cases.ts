@@ -9,12 +9,12 @@ import * as filesApi from '../api/files'
 import { getRoom } from '../api/rooms'
 
 /**
- * One part of the open case, loaded on its own so one failure does not blank the page. A reload asked
+ * One part of the open case (outside the store: `cases.detail.data`, `.loading`, `.error`), loaded on its own so one failure does not blank the page. A reload asked
  * for while one is in flight runs once more afterwards (so a change is never missed); a reset drops
  * answers still on their way for the case that was open before.
  */
 function section<T>(initial: T) {
-  const value = shallowRef<T>(initial)
+  const data = shallowRef<T>(initial)
   const loading = ref(false)
   const loaded = ref(false)
   const error = shallowRef<ApiRequestError | null>(null)
@@ -37,7 +37,7 @@ function section<T>(initial: T) {
         try {
           const answer = await latest!()
           if (mine !== generation) return
-          value.value = answer
+          data.value = answer
           error.value = null
           loaded.value = true
         } catch (caught) {
@@ -58,13 +58,13 @@ function section<T>(initial: T) {
     generation++
     pending = null
     again = false
-    value.value = initial
+    data.value = initial
     loaded.value = false
     loading.value = false
     error.value = null
   }
 
-  return { value, loading, loaded, error, load, reset }
+  return { data, loading, loaded, error, load, reset }
 }
 
 function asApiError(caught: unknown): ApiRequestError {
@@ -88,8 +88,8 @@ export const useCasesStore = defineStore('cases', () => {
   const files = section<CaseFile[]>([])
   const events = section<SequencedEvent[]>([])
 
-  const lastSeq = computed(() => events.value.value.at(-1)?.seq)
-  const status = computed<CaseStatus | null>(() => detail.value.value?.status ?? null)
+  const lastSeq = computed(() => events.data.value.at(-1)?.seq)
+  const status = computed<CaseStatus | null>(() => detail.data.value?.status ?? null)
 
   function loadMine(): Promise<void> {
     return mine.load(casesApi.listMyCases)
@@ -104,14 +104,14 @@ export const useCasesStore = defineStore('cases', () => {
   async function refreshDetail(): Promise<void> {
     const id = currentId.value
     if (!id) return
-    const before = detail.value.value?.room
+    const before = detail.data.value?.room
     await detail.load(() => casesApi.getCase(id))
-    const after = detail.value.value?.room
+    const after = detail.data.value?.room
     if (after && (!before || before.id !== after.id || before.revision !== after.revision || !room.loaded.value)) void refreshRoom()
   }
 
   async function refreshRoom(): Promise<void> {
-    const ref = detail.value.value?.room
+    const ref = detail.data.value?.room
     if (!ref) return
     await room.load(() => getRoom(ref.id, ref.revision))
   }
@@ -161,8 +161,8 @@ export const useCasesStore = defineStore('cases', () => {
       return []
     }
     if (!isCurrent(id) || fresh.length === 0) return fresh
-    const known = new Set(events.value.value.map((e) => e.seq))
-    events.value.value = [...events.value.value, ...fresh.filter((e) => !known.has(e.seq))]
+    const known = new Set(events.data.value.map((e) => e.seq))
+    events.data.value = [...events.data.value, ...fresh.filter((e) => !known.has(e.seq))]
     await applyKinds(fresh.map((e) => e.kind))
     return fresh
   }
@@ -184,7 +184,7 @@ export const useCasesStore = defineStore('cases', () => {
   async function sendMessage(input: MessageInput): Promise<CaseMessage> {
     const id = currentId.value!
     const message = await casesApi.postMessage(id, input)
-    if (isCurrent(id) && !messages.value.value.some((m) => m.id === message.id)) messages.value.value = [...messages.value.value, message]
+    if (isCurrent(id) && !messages.data.value.some((m) => m.id === message.id)) messages.data.value = [...messages.data.value, message]
     if (input.ask) void refreshDetail()
     void syncEvents()
     return message
@@ -195,7 +195,7 @@ export const useCasesStore = defineStore('cases', () => {
     const id = currentId.value!
     try {
       const updated = await casesApi.updateCase(id, change)
-      if (isCurrent(id)) detail.value.value = updated
+      if (isCurrent(id)) detail.data.value = updated
       void syncEvents()
       if (change.status === 'submitted') void refreshTriage()
       return updated
@@ -216,7 +216,7 @@ export const useCasesStore = defineStore('cases', () => {
   async function uploadFile(file: File, onProgress?: (fraction: number) => void, signal?: AbortSignal): Promise<CaseFile> {
     const id = currentId.value!
     const stored = await filesApi.uploadFile(id, file, onProgress, signal)
-    if (isCurrent(id) && !files.value.value.some((f) => f.id === stored.id)) files.value.value = [...files.value.value, stored]
+    if (isCurrent(id) && !files.data.value.some((f) => f.id === stored.id)) files.data.value = [...files.data.value, stored]
     return stored
   }
 
