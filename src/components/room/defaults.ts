@@ -2,7 +2,8 @@ import type { Room } from '../../../shared/schemas/room'
 
 /**
  * An invented, typical living room for a new description, so the plan and the preview show something
- * at once: 5.6 × 3.9 × 2.5 m, speakers on the short wall, a sofa two thirds of the way back.
+ * at once: 5.6 × 3.9 × 2.5 m, speakers on the short wall, a sofa two thirds of the way back,
+ * a rug, curtains at the window.
  */
 export function newRoomDraft(): Room {
   return {
@@ -29,8 +30,14 @@ export function newRoomDraft(): Room {
       floor: 'wood-floor-on-joists',
       ceiling: 'plasterboard-ceiling-on-battens',
     },
-    furnishings: [{ materialId: 'upholstered-seating-cloth', area: 1.8 }],
-    treatments: [],
+    furnishings: [
+      { materialId: 'upholstered-seating-cloth', area: 1.8 },
+      { materialId: 'upholstered-seating-cloth', area: 0.7 },
+      { materialId: 'curtains-cotton-draped', area: 3.2 },
+    ],
+    treatments: [
+      { type: 'rug', surface: 'floor', materialId: 'heavy-carpet-on-concrete', thickness: 0.01, width: 2.0, height: 1.6, x: 2.4, y: 1.95, z: 0 },
+    ],
     notes: '',
   }
 }
