@@ -15,15 +15,16 @@ export function ago(iso: string | null | undefined, now = Date.now()): string {
   return new Date(iso).toLocaleDateString(undefined, { day: 'numeric', month: 'short', year: 'numeric' })
 }
 
-/** A span of time without "ago": "40 min", "5 h", "3 days 4 h". */
-export function span(fromIso: string | null | undefined, now = Date.now()): string {
+/** A span of time without "ago": "40 min", "5 h", "3 days 4 h" (compact: "3 d 4 h"). */
+export function span(fromIso: string | null | undefined, now = Date.now(), compact = false): string {
   if (!fromIso) return '–'
   const diff = Math.max(0, now - new Date(fromIso).getTime())
   if (diff < hour) return `${Math.max(1, Math.floor(diff / minute))} min`
   if (diff < day) return `${Math.floor(diff / hour)} h`
   const days = Math.floor(diff / day)
   const hours = Math.floor((diff - days * day) / hour)
-  return `${days} day${days === 1 ? '' : 's'}${hours ? ` ${hours} h` : ''}`
+  const d = compact ? `${days} d` : `${days} day${days === 1 ? '' : 's'}`
+  return `${d}${hours ? ` ${hours} h` : ''}`
 }
 
 export function hoursSince(iso: string | null | undefined, now = Date.now()): number {

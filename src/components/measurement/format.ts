@@ -28,6 +28,6 @@ export function logFrequencyAxis(minHz: number, maxHz: number) {
     nameGap: 8,
     minorTick: { show: true, splitNumber: 9 },
     minorSplitLine: { show: true, lineStyle: { opacity: 0.35 } },
-    axisLabel: { formatter: (v: number) => (v >= 1000 ? `${v / 1000}k` : String(Math.round(v))) },
+    axisLabel: { showMaxLabel: false, formatter: (v: number) => (v >= 1000 ? `${Number((v / 1000).toFixed(1))}k` : String(Math.round(v))) },
   }
 }
