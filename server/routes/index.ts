@@ -7,6 +7,8 @@ import { casesRouter } from './cases'
 import { savedFiltersRouter, snippetsRouter } from './team'
 import { caseFilesRouter, filesRouter } from './files'
 import { mailRouter } from './mail'
+import { caseRatingsRouter, metricsRouter } from './metrics'
+import { auditRouter, teamAdminRouter } from './team-admin'
 
 /** Every API router, mounted under /api. Each feature adds its line here. */
 export function apiRouter(): Router {
@@ -21,5 +23,9 @@ export function apiRouter(): Router {
   router.use('/', mailRouter())
   router.use('/snippets', snippetsRouter())
   router.use('/saved-filters', savedFiltersRouter())
+  router.use('/metrics', metricsRouter())
+  router.use('/cases', caseRatingsRouter())
+  router.use('/team', teamAdminRouter())
+  router.use('/audit', auditRouter())
   return router
 }
