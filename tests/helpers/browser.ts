@@ -27,7 +27,7 @@ export async function signInAs(context: BrowserContext, baseUrl: string, email: 
 }
 
 export const screenshotDir = () => {
-  const d = resolve(process.env.TEST_TMP ?? '/tmp', 'screenshots')
+  const d = resolve(process.env.SCREENSHOT_DIR ?? '/tmp/roomwright-screenshots')
   mkdirSync(d, { recursive: true })
   return d
 }
