@@ -1,7 +1,7 @@
 import type { Transaction } from 'sequelize'
 import { QueryTypes } from 'sequelize'
 import { db } from '../db/sequelize'
-import { findCase, touchAfterMessage, updateStatus } from '../data/cases'
+import { findCase, setAssignee, touchAfterMessage, updateStatus } from '../data/cases'
 import { insertEvent } from '../data/events'
 import { insertMessage, listMessages, type MessageRow } from '../data/messages'
 import { findUserById } from '../data/users'
@@ -74,6 +74,10 @@ export async function postMessage(user: User, caseId: string, input: MessageInpu
       if (status === 'submitted') {
         const s = await autoMove(caseId, user.id, 'submitted', 'in_review', 'advisor replied', t)
         if (s) { moves.push(s); status = 'in_review' }
+        // The first advisor to answer a new, unassigned case takes it.
+        if (s && !c.assignee && (await setAssignee(caseId, user.id, null, t))) {
+          moves.push(await insertEvent({ caseId, actorId: user.id, kind: 'claimed', data: { assigneeId: user.id, assigneeName: user.name, auto: 'answered first' } }, t))
+        }
       }
       if (body.ask && status === 'in_review') {
         const s = await autoMove(caseId, user.id, 'in_review', 'waiting_on_listener', 'advisor asked for information', t)

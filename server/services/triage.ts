@@ -3,40 +3,12 @@ import { db } from '../db/sequelize'
 import { findCase, setScore } from '../data/cases'
 import { findRoom } from '../data/rooms'
 import { insertEvent } from '../data/events'
-import { computeRoomAnalysis, ENGINE_VERSION, type RoomAnalysis, type Reflection } from '../../shared/acoustics'
+import { computeRoomAnalysis, ENGINE_VERSION } from '../../shared/acoustics'
+import { flattenReflections, type TriageSnapshot } from '../../shared/schemas/triage'
 import type { Room } from '../../shared/schemas/room'
 import { notFound } from '../errors'
 
-/** The engine's Reflection plus which pair it belongs to; second-order entries name both surfaces. */
-export type TriageReflection = Reflection & { order: 1 | 2; speaker: string; seat: string; inWindow: boolean; surfaces?: [string, string] }
-
-export function flattenReflections(pairs: RoomAnalysis['reflections']): TriageReflection[] {
-  const out: TriageReflection[] = []
-  for (const p of pairs) {
-    for (const r of p.first) out.push({ surface: r.surface, point: r.point, pathLength: r.pathLength, delayMs: r.delayMs, levelDb: r.levelDb, order: 1, speaker: p.speaker, seat: p.seat, inWindow: r.inWindow })
-    for (const r of p.second) out.push({ surface: r.surfaces[1], surfaces: r.surfaces, point: r.points[1], pathLength: r.pathLength, delayMs: r.delayMs, levelDb: r.levelDb, order: 2, speaker: p.speaker, seat: p.seat, inWindow: r.inWindow })
-  }
-  return out
-}
-
-export interface TriageSnapshot {
-  engineVersion: string
-  roomRevision: number
-  room: RoomAnalysis['room']
-  modes: RoomAnalysis['modes']
-  modeAnalysis: RoomAnalysis['modeAnalysis']
-  /** every first- and second-order reflection per speaker–seat pair, flagged against the window */
-  reflections: TriageReflection[]
-  reflectionWindow: RoomAnalysis['reflectionWindow']
-  reflectionPairs: RoomAnalysis['reflections']
-  notches: RoomAnalysis['notches']
-  reverberation: RoomAnalysis['reverberation']
-  flags: RoomAnalysis['flags']
-  seat: RoomAnalysis['seat']
-  score: number
-  scoreParts: { label: string; points: number }[]
-  computedAt: string
-}
+export type { TriageSnapshot }
 
 /**
  * The stored part of a case's queue priority (the queue adds the time the listener has waited, so

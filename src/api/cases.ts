@@ -1,3 +1,4 @@
+import type { TriageSnapshot } from '../../shared/schemas/triage'
 import type {
   CaseDetail,
   CaseEvent,
@@ -24,20 +25,8 @@ export type QueueRow = CaseSummary & { priority: number }
 export type SequencedEvent = CaseEvent & { seq: number }
 
 /** The stored triage snapshot of a case: the engine's computeRoomAnalysis pieces plus the queue score. */
-export interface CaseTriage {
-  engineVersion: string
-  roomRevision: number
-  modes: RoomMode[]
-  modeAnalysis: ModeAnalysis
-  reflections: PairReflections[]
-  notches: SpeakerBoundaries[]
-  reverberation: ReverberationAnalysis
-  flags: SetupFlag[]
-  seat: SeatAnalysis
-  score: number
-  scoreParts: { label: string; points: number }[]
-  computedAt: string
-}
+/** The stored triage snapshot, typed from the one shared definition. */
+export type CaseTriage = TriageSnapshot
 
 export interface SavedFilter {
   id: string
