@@ -1,10 +1,12 @@
 import { computed, ref, watch } from 'vue'
 import { METRES_PER_FOOT, METRES_PER_INCH } from '../../shared/acoustics'
 import { useAuthStore } from '../stores/auth'
+import { getPreferences, setPreferences } from '../api/account'
 
 export type UnitSystem = 'metric' | 'imperial'
 
 const storageKey = (userId: string) => `rw.units.${userId}`
+let loadedFor: Promise<UnitSystem | null> | undefined
 
 function readChoice(userId: string | undefined): UnitSystem {
   if (!userId) return 'metric'
@@ -113,8 +115,24 @@ export function useUnits() {
     () => auth.user?.id,
     (id) => {
       units.value = readChoice(id)
+      if (id) adoptAccountChoice(id)
     },
   )
+  if (auth.user?.id) adoptAccountChoice(auth.user.id)
+
+  /** The account's stored choice wins over this browser's, once per page load. */
+  function adoptAccountChoice(id: string) {
+    loadedFor ??= getPreferences().then((p) => p.units).catch(() => null)
+    void loadedFor.then((choice) => {
+      if (!choice || auth.user?.id !== id) return
+      units.value = choice
+      try {
+        localStorage.setItem(storageKey(id), choice)
+      } catch {
+        /* ignore */
+      }
+    })
+  }
 
   function setUnits(value: UnitSystem): void {
     units.value = value
@@ -125,6 +143,8 @@ export function useUnits() {
     } catch {
       // Private mode or full storage: the choice lasts for this page only.
     }
+    // Kept on the account too, so the choice follows the person to another browser.
+    void setPreferences({ units: value }).catch(() => {})
   }
 
   const system = computed({ get: () => units.value, set: setUnits })

@@ -1,6 +1,7 @@
 import {
   mdiAccountGroupOutline,
   mdiChartBoxOutline,
+  mdiEmailOutline,
   mdiFloorPlan,
   mdiFolderOutline,
   mdiMicrophoneOutline,
@@ -31,6 +32,8 @@ export const routeNames = [
   'queue',
   'case-workspace',
   'team',
+  'account',
+  'mailbox',
   'not-found',
 ] as const
 
@@ -174,6 +177,18 @@ export function buildRoutes(): NamedRoute[] {
         roles: ['listener', 'advisor', 'supervisor'],
         nav: { label: 'Measuring guide', icon: mdiMicrophoneOutline },
       },
+    },
+    {
+      path: '/account',
+      name: 'account',
+      component: () => import('../pages/AccountPage.vue'),
+      meta: { title: 'Your account', roles: ['listener', 'advisor', 'supervisor'] },
+    },
+    {
+      path: '/mailbox',
+      name: 'mailbox',
+      component: () => import('../pages/MailboxPage.vue'),
+      meta: { title: 'Outgoing mail', roles: ['supervisor'], nav: { label: 'Outgoing mail', icon: mdiEmailOutline } },
     },
     {
       path: '/:pathMatch(.*)*',
