@@ -30,6 +30,13 @@ export const errorHandler: ErrorRequestHandler = (err, req, res, _next) => {
   } else if ((err as { type?: string })?.type === 'entity.parse.failed') {
     status = 400
     body = { code: 'invalid_json', message: 'The request body is not valid JSON' }
+  } else if ((err as { type?: string })?.type === 'encoding.unsupported') {
+    status = 415
+    body = { code: 'unsupported_encoding', message: 'The request body uses a Content-Encoding this server does not read (use gzip, deflate or none)' }
+  } else if ((err as { expose?: boolean })?.expose === true && (err as { status?: number }).status === 400) {
+    // body-parser's own 400s (e.g. a body that claims gzip but is not) carry no `type`
+    status = 400
+    body = { code: 'unreadable_body', message: 'The request body could not be read' }
   } else if (dbDown(err)) {
     status = 503
     body = { code: 'unavailable', message: 'The database is not answering; please try again in a moment' }
