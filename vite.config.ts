@@ -20,6 +20,7 @@ export default defineConfig({
     hookTimeout: 60_000,
     maxWorkers: 2,
     globalSetup: ['tests/helpers/global-setup.ts'],
+    setupFiles: ['tests/helpers/per-file-db.ts'],
     server: { deps: { inline: ['vuetify'] } },
   },
 })

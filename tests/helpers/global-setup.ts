@@ -6,5 +6,8 @@
 export default async function setup(): Promise<void> {
   if (!process.env.DATABASE_URL) return
   const { migrateUp } = await import('../../server/db/migrate')
+  const { closeDb } = await import('../../server/db/sequelize')
   await migrateUp()
+  // No connection may stay open on the database each test file clones as its template.
+  await closeDb()
 }
