@@ -4,7 +4,7 @@ import { validate } from '../middleware/validate'
 import { createCaseSchema, messageSchema, updateCaseSchema } from '../../shared/schemas/case'
 import { createCase, listMyCases, updateCase } from '../services/cases'
 import { readableCase, isStaff } from '../services/access'
-import { latestTriage } from '../services/triage'
+import { latestTriage, triageHistory } from '../services/triage'
 import { getThread, postMessage } from '../services/messages'
 import { listEvents } from '../data/events'
 import { AppError, notFound } from '../errors'
@@ -42,6 +42,10 @@ export function casesRouter(): Router {
     const triage = await latestTriage(String(req.params.id))
     if (!triage) throw notFound('A triage for this case (it is computed when the case is sent)')
     res.json(triage)
+  })
+  router.get('/:id/triage/history', requireSignedIn, async (req, res) => {
+    await readableCase(currentUser(req), String(req.params.id))
+    res.json({ history: await triageHistory(String(req.params.id)) })
   })
   router.get('/:id/events', requireSignedIn, validate(afterQuery, 'query'), async (req, res) => {
     const user = currentUser(req)

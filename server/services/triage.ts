@@ -4,7 +4,7 @@ import { findCase, setScore } from '../data/cases'
 import { findRoom } from '../data/rooms'
 import { insertEvent } from '../data/events'
 import { computeRoomAnalysis, ENGINE_VERSION } from '../../shared/acoustics'
-import { flattenReflections, type TriageSnapshot } from '../../shared/schemas/triage'
+import { flattenReflections, type TriageHistoryEntry, type TriageSnapshot } from '../../shared/schemas/triage'
 import type { Room } from '../../shared/schemas/room'
 import { notFound } from '../errors'
 
@@ -74,4 +74,21 @@ export async function latestTriage(caseId: string): Promise<TriageSnapshot | nul
     bind: [caseId], type: QueryTypes.SELECT,
   })
   return rows[0]?.body ?? null
+}
+
+/** Every triage of a case, oldest first, reduced to the figures compared between room revisions (computed in SQL). */
+export async function triageHistory(caseId: string): Promise<TriageHistoryEntry[]> {
+  const rows = await db().query<{ room_revision: number; computed_at: Date; engine_version: string; score: number; flags: { id: string; severity: string }[] | null; rt500: number | null; spread: number | null; in_window: number }>(
+    `SELECT ts.room_revision, ts.computed_at, ts.engine_version, ts.score,
+            (SELECT jsonb_agg(jsonb_build_object('id', f->>'id', 'severity', f->>'severity')) FROM jsonb_array_elements(ts.body->'flags') f) AS flags,
+            (SELECT (b->>'eyring')::float FROM jsonb_array_elements(ts.body->'reverberation'->'bands') b WHERE (b->>'hz')::int = 500) AS rt500,
+            (ts.body->'seat'->'modalResponse'->>'spreadDb')::float AS spread,
+            (SELECT count(*)::int FROM jsonb_array_elements(ts.body->'reflections') r WHERE (r->>'inWindow')::boolean) AS in_window
+       FROM triage_snapshots ts WHERE ts.case_id = $1 ORDER BY ts.id`,
+    { bind: [caseId], type: QueryTypes.SELECT },
+  )
+  return rows.map((r) => ({
+    roomRevision: r.room_revision, computedAt: new Date(r.computed_at).toISOString(), engineVersion: r.engine_version, score: r.score,
+    flags: r.flags ?? [], rt500: r.rt500, seatSpreadDb: r.spread, reflectionsInWindow: r.in_window,
+  }))
 }

@@ -32,3 +32,18 @@ export function flattenReflections(pairs: RoomAnalysis['reflections']): TriageRe
   }
   return out
 }
+
+/** One line of a case's triage history: the figures an advisor compares between room revisions. */
+export interface TriageHistoryEntry {
+  roomRevision: number
+  computedAt: string
+  engineVersion: string
+  score: number
+  flags: { id: string; severity: string }[]
+  /** Eyring RT at 500 Hz, s */
+  rt500: number | null
+  /** peak-to-null spread of the smoothed modal response at the main seat, dB */
+  seatSpreadDb: number | null
+  /** first- and second-order reflections inside the window, all pairs */
+  reflectionsInWindow: number
+}

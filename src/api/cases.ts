@@ -1,4 +1,4 @@
-import type { TriageSnapshot } from '../../shared/schemas/triage'
+import type { TriageHistoryEntry, TriageSnapshot } from '../../shared/schemas/triage'
 import type {
   CaseDetail,
   CaseEvent,
@@ -87,6 +87,10 @@ export async function getTriage(id: string): Promise<CaseTriage | null> {
     if (error instanceof ApiRequestError && error.status === 404) return null
     throw error
   }
+}
+
+export async function getTriageHistory(id: string): Promise<TriageHistoryEntry[]> {
+  return (await api.get<{ history: TriageHistoryEntry[] }>(`${casePath(id)}/triage/history`)).history
 }
 
 export async function listEvents(id: string, afterSeq?: number): Promise<SequencedEvent[]> {

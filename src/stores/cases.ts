@@ -1,3 +1,4 @@
+import type { TriageHistoryEntry } from '../../shared/schemas/triage'
 import { defineStore } from 'pinia'
 import { computed, ref, shallowRef } from 'vue'
 import type { CaseDetail, CaseFile, CaseMessage, CaseStatus, CaseSummary, CreateCaseInput, MessageInput, UpdateCaseInput } from '../../shared/schemas/case'
@@ -83,6 +84,7 @@ export const useCasesStore = defineStore('cases', () => {
   const currentId = ref<string | null>(null)
   const detail = section<CaseDetail | null>(null)
   const triage = section<CaseTriage | null>(null)
+  const triageHistory = section<TriageHistoryEntry[]>([])
   const room = section<RoomRecord | null>(null)
   const messages = section<CaseMessage[]>([])
   const files = section<CaseFile[]>([])
@@ -118,7 +120,8 @@ export const useCasesStore = defineStore('cases', () => {
 
   function refreshTriage(): Promise<void> {
     const id = currentId.value
-    return id ? triage.load(() => casesApi.getTriage(id)) : Promise.resolve()
+    if (!id) return Promise.resolve()
+    return Promise.all([triage.load(() => casesApi.getTriage(id)), triageHistory.load(() => casesApi.getTriageHistory(id))]).then(() => {})
   }
 
   function refreshMessages(): Promise<void> {
@@ -139,7 +142,7 @@ export const useCasesStore = defineStore('cases', () => {
   /** Opens a case: every part in parallel, each with its own loading and error state. */
   async function open(id: string): Promise<void> {
     if (currentId.value !== id) {
-      for (const part of [detail, triage, room, messages, files, events]) part.reset()
+      for (const part of [detail, triage, triageHistory, room, messages, files, events]) part.reset()
       currentId.value = id
     }
     await Promise.all([refreshDetail(), refreshTriage(), refreshMessages(), refreshFiles(), refreshEvents()])
@@ -227,6 +230,7 @@ export const useCasesStore = defineStore('cases', () => {
     currentId,
     detail,
     triage,
+    triageHistory,
     room,
     messages,
     files,

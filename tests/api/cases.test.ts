@@ -182,3 +182,20 @@ describe('GET /api/cases', () => {
     expect(res.body.error.fields[0].path).toMatch(/^status/)
   })
 })
+
+describe('GET /api/cases/:id/triage/history — before/after between room revisions', () => {
+  it('a new room revision re-triages the open case and the history shows both, oldest first', async () => {
+    const listener = await signedIn('listener')
+    const { case: c, room } = await openCase(listener.c)
+    const { testRoom } = await import('../helpers/rooms')
+    // Add a 50 mm rock-wool panel (Bies table row, via the materials table) at the left wall: more absorption, lower RT.
+    await listener.c.put(`/api/rooms/${room.id}`, testRoom({
+      treatments: [{ type: 'panel', surface: 'left', materialId: 'rockwool-50mm-40kg', thickness: 0.05, width: 1.2, height: 1.2, x: 2.2, y: 0, z: 1.2 }],
+    })).expect(200)
+    const history = (await listener.c.get(`/api/cases/${c.id}/triage/history`).expect(200)).body.history
+    expect(history.map((h: { roomRevision: number }) => h.roomRevision)).toEqual([1, 2])
+    expect(history[1].rt500).toBeLessThan(history[0].rt500)
+    const stranger = await signedIn('listener')
+    await stranger.c.get(`/api/cases/${c.id}/triage/history`).expect(404)
+  })
+})
