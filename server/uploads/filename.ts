@@ -13,7 +13,7 @@ const CONTROL = /[\u0000-\u001f\u007f-\u009f\u200e\u200f\u202a-\u202e\u2066-\u20
 export function sanitiseFilename(name: string | undefined | null): string {
   let n = String(name ?? '').normalize('NFC')
   n = n.split(/[\\/]/).pop() ?? ''
-  n = n.replace(/[\t\n\v\f\r]/g, ' ').replace(CONTROL, '').replace(/\s+/g, ' ').trim().replace(/^\.+/, '').trim()
+  n = n.replace(/[\t\n\v\f\r]/g, ' ').replace(CONTROL, '').replace(/\s+/g, ' ').trim().replace(/^[.\s]+/, '')
   if (!n) return 'upload'
   const chars = [...n]
   if (chars.length <= MAX_FILENAME_LENGTH) return n
