@@ -36,11 +36,17 @@ const DANGEROUS_TAGS = new Set(['script', 'iframe', 'frame', 'frameset', 'object
  * event-handler attributes, inline styles, and URL attributes whose scheme is not http(s), mailto,
  * an in-page anchor or a same-site path. Returns the list of problems (empty when safe).
  */
+let checker: { dom: JSDOM; uses: number } | undefined
 export function unsafeHtml(html: string, opts: { allowStyle?: boolean; allowTags?: string[] } = {}): string[] {
-  const dom = new JSDOM(`<!doctype html><body>${html}</body>`)
+  // one parser window, replaced now and then (jsdom frees parsed documents lazily)
+  if (!checker || ++checker.uses > 300) {
+    checker?.dom.window.close()
+    checker = { dom: new JSDOM('<!doctype html><body></body>'), uses: 0 }
+  }
+  const parsed = new checker.dom.window.DOMParser().parseFromString(`<!doctype html><html><head></head><body>${html}</body></html>`, 'text/html')
   const problems: string[] = []
   const allowed = new Set(opts.allowTags ?? [])
-  for (const el of dom.window.document.body.querySelectorAll('*')) {
+  for (const el of [...parsed.head.querySelectorAll('*'), ...parsed.body.querySelectorAll('*')]) {
     const tag = el.tagName.toLowerCase()
     // an empty <template> is inert; one with content could be cloned into the page by a script
     if (DANGEROUS_TAGS.has(tag) && !allowed.has(tag) && !(tag === 'template' && !el.innerHTML.trim())) problems.push(`<${tag}>`)
@@ -55,6 +61,5 @@ export function unsafeHtml(html: string, opts: { allowStyle?: boolean; allowTags
       }
     }
   }
-  dom.window.close()
   return problems
 }
