@@ -9,6 +9,7 @@ import { caseFilesRouter, filesRouter } from './files'
 import { mailRouter } from './mail'
 import { caseRatingsRouter, metricsRouter } from './metrics'
 import { auditRouter, teamAdminRouter } from './team-admin'
+import { plansRouter } from './plans'
 
 /** Every API router, mounted under /api. Each feature adds its line here. */
 export function apiRouter(): Router {
@@ -27,5 +28,6 @@ export function apiRouter(): Router {
   router.use('/cases', caseRatingsRouter())
   router.use('/team', teamAdminRouter())
   router.use('/audit', auditRouter())
+  router.use('/', plansRouter())
   return router
 }

@@ -102,3 +102,38 @@ export const previewPlanSchema = z.object({ caseId: z.string().uuid('name the ca
 export type PreviewPlanInput = z.input<typeof previewPlanSchema>
 
 export const planVersionParamsSchema = z.object({ version: z.coerce.number().int().min(1).max(100_000) })
+
+import type { PlanPredictions } from '../plan/predict'
+
+export type PlanStatus = 'draft' | 'sent'
+
+/** One saved plan version as the API answers it. */
+export interface PlanVersion {
+  caseId: string
+  version: number
+  status: PlanStatus
+  /** the room revision the plan was made for */
+  roomId: string
+  roomRevision: number
+  body: PlanBody
+  predictions: PlanPredictions
+  engineVersion: string
+  createdBy: { id: string; name: string } | null
+  createdAt: string
+  sentAt: string | null
+  sentBy: { id: string; name: string } | null
+}
+
+/** A version in the list: what it is, without the figures. */
+export interface PlanVersionSummary {
+  version: number
+  status: PlanStatus
+  roomRevision: number
+  createdBy: { id: string; name: string } | null
+  createdAt: string
+  sentAt: string | null
+  /** changes in the plan (setup moves and treatments) */
+  changeCount: number
+  /** the newest version this caller may see (for a listener: the newest sent one) */
+  current: boolean
+}
