@@ -49,36 +49,34 @@ const scopedCases = `
        AND ($3::uuid[] IS NULL OR c.assignee_id = ANY($3::uuid[]))
        AND ($4::uuid[] IS NULL OR c.listener_id = ANY($4::uuid[])))`
 
-/** Per case: submission, first response (time and who), first closing after submission. */
+/** Seconds from a to b: working seconds with business hours ($6), else calendar seconds (kept out of the function, which the planner then handles better). */
+const seconds = (a: string, b: string) =>
+  `CASE WHEN $6::jsonb IS NULL THEN EXTRACT(EPOCH FROM ${b} - ${a})::double precision ELSE rw_working_seconds(${a}, ${b}, $5::text, $6::jsonb) END`
+
+/**
+ * Per case: submission, first response (time and who), first closing after submission. One pass
+ * over the scoped cases' events: a window gives every event its case's submission time, then one
+ * grouped aggregate picks the firsts (row estimates stay sane at 10 000 cases, see bench/queue-metrics.ts).
+ */
 const timeline = `
   ${scopedCases},
-  sub AS (
-    SELECT e.case_id, min(e.created_at) AS submitted_at
-      FROM case_events e JOIN scoped s ON s.id = e.case_id
-     WHERE e.from_status = 'draft' AND e.to_status = 'submitted'
-     GROUP BY e.case_id),
-  responses AS (
-    SELECT e.case_id, e.created_at, e.actor_id,
-           row_number() OVER (PARTITION BY e.case_id ORDER BY e.created_at, e.id) AS n
-      FROM case_events e
-      JOIN sub ON sub.case_id = e.case_id AND e.created_at >= sub.submitted_at
-      JOIN users u ON u.id = e.actor_id AND u.role IN ('advisor', 'supervisor')
-     WHERE (e.kind = 'message' AND NOT coalesce((e.data->>'internal')::boolean, false))
-        OR (e.kind = 'status' AND e.from_status = 'submitted')),
-  closings AS (
-    SELECT e.case_id, e.created_at,
-           row_number() OVER (PARTITION BY e.case_id ORDER BY e.created_at, e.id) AS n
-      FROM case_events e JOIN sub ON sub.case_id = e.case_id AND e.created_at >= sub.submitted_at
-     WHERE e.to_status = 'closed'),
+  ev AS (
+    SELECT e.case_id, e.id, e.created_at, e.to_status, e.actor_id,
+           u.role IN ('advisor', 'supervisor')
+             AND ((e.kind = 'message' AND NOT coalesce((e.data->>'internal')::boolean, false)) OR (e.kind = 'status' AND e.from_status = 'submitted')) AS is_response,
+           min(e.created_at) FILTER (WHERE e.from_status = 'draft' AND e.to_status = 'submitted') OVER (PARTITION BY e.case_id) AS submitted_at
+      FROM case_events e JOIN scoped s ON s.id = e.case_id LEFT JOIN users u ON u.id = e.actor_id),
+  firsts AS (
+    SELECT case_id, min(submitted_at) AS submitted_at,
+           min(created_at) FILTER (WHERE is_response AND created_at >= submitted_at) AS first_response_at,
+           (array_agg(actor_id ORDER BY created_at, id) FILTER (WHERE is_response AND created_at >= submitted_at))[1] AS first_responder_id,
+           min(created_at) FILTER (WHERE to_status = 'closed' AND created_at >= submitted_at) AS closed_at
+      FROM ev WHERE submitted_at IS NOT NULL GROUP BY case_id),
   timeline AS (
-    SELECT s.id AS case_id, s.status, s.assignee_id, s.flag_ids, sub.submitted_at,
-           r.created_at AS first_response_at, r.actor_id AS first_responder_id, cl.created_at AS closed_at,
-           rw_working_seconds(sub.submitted_at, r.created_at, $5::text, $6::jsonb) AS response_s,
-           rw_working_seconds(sub.submitted_at, cl.created_at, $5::text, $6::jsonb) AS resolution_s
-      FROM scoped s
-      JOIN sub ON sub.case_id = s.id
-      LEFT JOIN responses r ON r.case_id = s.id AND r.n = 1
-      LEFT JOIN closings cl ON cl.case_id = s.id AND cl.n = 1)`
+    SELECT s.id AS case_id, s.status, s.assignee_id, s.flag_ids, f.submitted_at, f.first_response_at, f.first_responder_id, f.closed_at,
+           ${seconds('f.submitted_at', 'f.first_response_at')} AS response_s,
+           ${seconds('f.submitted_at', 'f.closed_at')} AS resolution_s
+      FROM scoped s JOIN firsts f ON f.case_id = s.id)`
 
 /** Monday-to-Monday weeks (team time zone) overlapping [from, to). */
 const weeks = `
@@ -156,7 +154,7 @@ export async function openClocks(s: Scope, t: Targets, limit = 200): Promise<Ope
            FROM timeline tl LEFT JOIN reopened ro ON ro.case_id = tl.case_id
           WHERE tl.status NOT IN ('draft', 'closed')),
        measured AS (
-         SELECT k.*, rw_working_seconds(k.clock_start, now(), $5::text, $6::jsonb) AS elapsed_s,
+         SELECT k.*, ${seconds('k.clock_start', 'now()')} AS elapsed_s,
                 CASE WHEN k.responded THEN $8::double precision ELSE $7::double precision END * 3600 AS target_s
            FROM clocks k)
      SELECT m.case_id, c.title, c.status, c.listener_id, l.name AS listener_name, c.assignee_id, a.name AS assignee_name,

@@ -256,6 +256,8 @@ export async function insertHistory(o: HistoryOptions): Promise<{ caseIds: strin
   const gone = team.advisors.filter((a) => !a.active).map((a) => a.id)
   await sql.query(`UPDATE users SET active = false WHERE id = ANY($1::uuid[])`, { bind: [gone] })
   await sql.query(`UPDATE cases SET assignee_id = NULL WHERE assignee_id = ANY($1::uuid[]) AND status <> 'closed'`, { bind: [gone] })
+  // Fresh statistics after a bulk load, so the planner does not plan the metrics for empty tables.
+  await sql.query('ANALYZE users, rooms, cases, case_events, messages, case_ratings')
   if (o.triageOpen) for (const id of openIds) await computeAndStoreTriage(id)
   return { caseIds: cases.map((c) => c.id as string), listenerIds: listeners.map((l) => l.id) }
 
