@@ -32,6 +32,9 @@ export async function attachSockets(http: HttpServer, sessionMiddleware: Request
   const server = new Server(http, { serveClient: false, connectionStateRecovery: undefined })
   const pool = new pg.Pool({ connectionString: config().DATABASE_URL, max: 3, connectionTimeoutMillis: 3000 })
   pool.on('error', (e) => log.warn('socket adapter pool error', { err: String(e) }))
+  // The adapter keeps one client checked out for LISTEN and gives it no 'error' listener: without
+  // this, PostgreSQL going away crashes the process; with it, the client ends and the adapter reconnects.
+  pool.on('connect', (client) => client.on('error', (e) => log.warn('socket adapter connection lost', { err: String(e) })))
   server.adapter(createAdapter(pool, { heartbeatInterval: 5000, heartbeatTimeout: 10000 }))
   server.engine.use(sessionMiddleware)
 
