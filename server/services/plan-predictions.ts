@@ -1,15 +1,9 @@
 import { computeRoomAnalysis, materialIds } from '../../shared/acoustics'
-import { applyPlan, predictPlan, setupSuggestions, snapTargets, type PlanPredictions, type PlanRoom, type SetupSuggestions, type SnapTarget } from '../../shared/plan'
+import { applyPlan, predictPlan, setupSuggestions, snapTargets, type PlanPredictions, type PlanPreview, type PlanRoom } from '../../shared/plan'
 import { planIssues, type PlanBody } from '../../shared/schemas/plan'
 import { badRequest } from '../errors'
 
-export interface PlanPreview {
-  predictions: PlanPredictions
-  /** places for treatments, from the room with the plan's seat and speaker moves made */
-  snapTargets: SnapTarget[]
-  /** seat and speaker positions from the engine's search on today's room */
-  suggestions: SetupSuggestions
-}
+export type { PlanPreview }
 
 /** 400 with field paths for a plan that does not fit its room (positions outside, unknown ids or materials). */
 export function checkPlan(room: PlanRoom, body: PlanBody): void {

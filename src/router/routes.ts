@@ -31,7 +31,11 @@ export const routeNames = [
   'dashboard',
   'queue',
   'case-workspace',
+  'plan-editor',
+  'plan-report',
   'team',
+  'audit-log',
+  'set-password',
   'account',
   'mailbox',
   'not-found',
@@ -41,7 +45,10 @@ export const routeNames = [
 interface RouteParamsByName {
   case: { id: string }
   'case-workspace': { id: string }
+  'plan-editor': { id: string }
+  'plan-report': { id: string; version: string }
   'room-edit': { id: string }
+  'set-password': { token: string }
 }
 
 /** Navigate by these names only: `router.push({ name: 'queue' })`. A mistyped name fails the type check. */
@@ -163,10 +170,35 @@ export function buildRoutes(): NamedRoute[] {
       meta: { title: 'Case', roles: ['advisor', 'supervisor'] },
     },
     {
+      path: '/desk/cases/:id/plan',
+      name: 'plan-editor',
+      component: () => import('../pages/PlanEditorPage.vue'),
+      meta: { title: 'Treatment plan', roles: ['advisor', 'supervisor'] },
+    },
+    {
+      path: '/cases/:id/plans/:version/report',
+      name: 'plan-report',
+      component: () => import('../pages/PlanReportPage.vue'),
+      meta: { title: 'Treatment plan', roles: ['listener', 'advisor', 'supervisor'] },
+    },
+    {
       path: '/team',
       name: 'team',
       component: () => import('../pages/TeamPage.vue'),
       meta: { title: 'Team', roles: ['supervisor'], nav: { label: 'Team', icon: mdiAccountGroupOutline } },
+    },
+    {
+      path: '/team/audit',
+      name: 'audit-log',
+      component: () => import('../pages/AuditLogPage.vue'),
+      meta: { title: 'Audit log', roles: ['supervisor'] },
+    },
+    {
+      // The link in an invitation e-mail (server/services/team.ts setPasswordUrl).
+      path: '/welcome/:token',
+      name: 'set-password',
+      component: () => import('../pages/SetPasswordPage.vue'),
+      meta: { title: 'Set your password', public: true },
     },
     {
       path: '/guide/measuring',
