@@ -1,0 +1,58 @@
+/**
+ * Live-update bench: 200 sockets in one case room; an advisor posts a reply over HTTP and the time
+ * from the POST to the `case.message` event is taken on every socket. SOCKETS_COUNT, SOCKETS_REPLIES.
+ * Run standalone: `npx tsx bench/sockets.ts`.
+ */
+import { pathToFileURL } from 'node:url'
+import { io, type Socket } from 'socket.io-client'
+import { benchDatabase, percentile } from './lib/db'
+import { benchUser } from './lib/people'
+import type { Figure } from './index'
+
+const COUNT = Number(process.env.SOCKETS_COUNT ?? 200)
+const REPLIES = Number(process.env.SOCKETS_REPLIES ?? 20)
+
+export async function run(): Promise<Figure[]> {
+  await benchDatabase()
+  const { startServer } = await import('../server/server')
+  const server = await startServer({ port: 0, clientDir: false, background: false })
+  const sockets: Socket[] = []
+  try {
+    const listener = await benchUser(server.url, 'listener')
+    const advisor = await benchUser(server.url, 'advisor')
+    const { testRoom } = await import('../tests/helpers/rooms')
+    const room = (await listener.agent.post('/api/rooms').set('X-CSRF-Token', listener.csrf).send(testRoom()).expect(201)).body
+    const c = (await listener.agent.post('/api/cases').set('X-CSRF-Token', listener.csrf).send({ roomId: room.id, title: 'Bench: live updates' }).expect(201)).body
+    await listener.agent.patch(`/api/cases/${c.id}`).set('X-CSRF-Token', listener.csrf).send({ status: 'submitted', fromStatus: 'draft' }).expect(200)
+    for (let i = 0; i < COUNT; i++) {
+      const s = io(server.url, { transports: ['websocket'], extraHeaders: { Cookie: i % 2 ? listener.cookie : advisor.cookie }, reconnection: false, forceNew: true })
+      await new Promise<void>((res, rej) => { s.once('connect', () => res()); s.once('connect_error', rej) })
+      const ack = await s.timeout(10_000).emitWithAck('case.join', { caseId: c.id })
+      if (!ack.ok) throw new Error('join refused')
+      sockets.push(s)
+    }
+    const all: number[] = []
+    const lastArrival: number[] = []
+    for (let r = 0; r < REPLIES; r++) {
+      const arrivals = sockets.map((s) => new Promise<number>((res) => s.once('case.message', () => res(performance.now()))))
+      const t0 = performance.now()
+      await advisor.agent.post(`/api/cases/${c.id}/messages`).set('X-CSRF-Token', advisor.csrf).send({ body: `Bench reply ${r}` }).expect(201)
+      const times = (await Promise.all(arrivals)).map((t) => t - t0)
+      all.push(...times)
+      lastArrival.push(Math.max(...times))
+    }
+    return [
+      { name: `reply → arrival p50 (${COUNT} sockets)`, value: percentile(all, 50), unit: 'ms' },
+      { name: `reply → arrival p95 (${COUNT} sockets)`, value: percentile(all, 95), unit: 'ms', target: '< 500 ms (ours)' },
+      { name: 'reply → last socket, median', value: percentile(lastArrival, 50), unit: 'ms' },
+    ]
+  } finally {
+    for (const s of sockets) s.disconnect()
+    await server.close()
+  }
+}
+
+if (import.meta.url === pathToFileURL(process.argv[1]).href) {
+  for (const f of await run()) console.log(`${f.name}: ${f.value.toFixed(2)} ${f.unit}${f.target ? ` (target ${f.target})` : ''}`)
+  process.exit(0)
+}
