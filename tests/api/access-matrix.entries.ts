@@ -104,6 +104,7 @@ export const routeEntries: Record<string, Scenario[]> = {
     sc(at((w) => `/api/cases/${w.caseId}/triage`), E(401, 200, 404, 200, 200)),
     sc(at((w) => `/api/cases/${w.draftId}/triage`, { note: 'a draft has none yet' }), E(401, 404, 404, 404, 404)),
   ],
+  'GET /api/cases/:id/triage/history': [sc(at((w) => `/api/cases/${w.caseId}/triage/history`), E(401, 200, 404, 200, 200))],
   'GET /api/cases/:id/events': [sc(at((w) => `/api/cases/${w.caseId}/events`), E(401, 200, 404, 200, 200))],
   'GET /api/cases/:id/messages': [sc(at((w) => `/api/cases/${w.caseId}/messages`), E(401, 200, 404, 200, 200))],
   'POST /api/cases/:id/messages': [
@@ -148,6 +149,31 @@ export const routeEntries: Record<string, Scenario[]> = {
   'GET /api/saved-filters': [sc(at(() => '/api/saved-filters'), E(401, 403, 403, 200, 200))],
   'POST /api/saved-filters': [sc(at(() => '/api/saved-filters', { body: () => ({ name: `Mine ${tag()}`, query: { scope: 'mine' } }) }), E(401, 403, 403, 201, 201))],
   'DELETE /api/saved-filters/:id': [sc(at((w) => `/api/saved-filters/${w.filterId}`, { note: "the advisor's own filter", fresh: 'world' }), E(401, 403, 403, 204, 404))],
+
+  // supervisor dashboard: supervisors only; PUT /targets with an empty body so the shared targets are never changed (the supervisor reaches validation: 400)
+  ...Object.fromEntries(['status', 'queue', 'waiting', 'response-times', 'breaches', 'workload', 'reopen-rate', 'flags', 'satisfaction', 'targets'].map((m) => [`GET /api/metrics/${m}`, [sc(at(() => `/api/metrics/${m}`), E(401, 403, 403, 403, 200))]])),
+  'PUT /api/metrics/targets': [sc(at(() => '/api/metrics/targets', { note: 'empty body', body: () => ({}) }), E(401, 403, 403, 403, 400))],
+
+  'GET /api/cases/:id/rating': [sc(at((w) => `/api/cases/${w.caseId}/rating`), E(401, 200, 404, 200, 200))],
+  'POST /api/cases/:id/rating': [sc(at((w) => `/api/cases/${w.caseId}/rating`, { note: 'the case is not closed yet', body: () => ({ score: 5, comment: 'Great advice' }) }), E(401, 409, 404, 403, 403))],
+
+  'GET /api/cases/:id/plans': [sc(at((w) => `/api/cases/${w.caseId}/plans`), E(401, 200, 404, 200, 200))],
+  'POST /api/cases/:id/plans': [sc(at((w) => `/api/cases/${w.caseId}/plans`, { note: 'an empty plan (every field has a default)', body: () => ({}) }), E(401, 403, 403, 201, 201))],
+  'GET /api/cases/:id/plans/:version': [sc(at((w) => `/api/cases/${w.caseId}/plans/1`, { note: 'no plan yet', fresh: 'world' }), E(401, 404, 404, 404, 404))],
+  'POST /api/cases/:id/plans/:version/send': [sc(at((w) => `/api/cases/${w.caseId}/plans/1/send`, { note: 'no plan yet', fresh: 'world', body: () => ({ fromStatus: 'submitted' }) }), E(401, 403, 403, 404, 404))],
+  'GET /api/cases/:id/plans/:version/report.pdf': [sc(at((w) => `/api/cases/${w.caseId}/plans/1/report.pdf`, { note: 'no plan yet', fresh: 'world' }), E(401, 404, 404, 404, 404))],
+  'POST /api/plans/preview': [sc(at(() => '/api/plans/preview', { note: 'empty body: staff reach validation', body: () => ({}) }), E(401, 403, 403, 400, 400))],
+
+  'GET /api/team/members': [sc(at(() => '/api/team/members'), E(401, 403, 403, 403, 200))],
+  'POST /api/team/members/:id/deactivate': [sc(at(() => `/api/team/members/${randomUUID()}/deactivate`, { note: 'an unknown member' }), E(401, 403, 403, 403, 404))],
+  'POST /api/team/members/:id/reactivate': [sc(at(() => `/api/team/members/${randomUUID()}/reactivate`, { note: 'an unknown member' }), E(401, 403, 403, 403, 404))],
+  'PUT /api/team/members/:id/role': [sc(at(() => `/api/team/members/${randomUUID()}/role`, { note: 'an unknown member', body: () => ({ role: 'advisor' }) }), E(401, 403, 403, 403, 404))],
+  'GET /api/team/invitations': [sc(at(() => '/api/team/invitations'), E(401, 403, 403, 403, 200))],
+  'POST /api/team/invitations': [sc(at(() => '/api/team/invitations', { body: () => ({ email: `invitee-${tag()}@example.test`, name: 'Invited Advisor', role: 'advisor' }) }), E(401, 403, 403, 403, 201))],
+  'DELETE /api/team/invitations/:id': [sc(at(() => `/api/team/invitations/${randomUUID()}`, { note: 'an unknown invitation' }), E(401, 403, 403, 403, 404))],
+  'GET /api/team/invitations/by-token/:token': [sc(at(() => `/api/team/invitations/by-token/${'A'.repeat(43)}`, { note: 'a made-up token (public route)' }), all(404))],
+  'POST /api/team/invitations/accept': [sc(at(() => '/api/team/invitations/accept', { note: 'a made-up token (public route)', body: () => ({ token: 'B'.repeat(43), password: 'a-long-enough-password' }) }), all(404))],
+  'GET /api/audit': [sc(at(() => '/api/audit'), E(401, 403, 403, 403, 200))],
 }
 
 /**
