@@ -32,6 +32,9 @@ async function invitationToken(email: string): Promise<string> {
 
 describe('the supervisor manages the team in the browser', () => {
   it('the dashboard shows its figures (screenshot saved)', async () => {
+    // For a screenshot worth looking at (a manual run): KEEP_SCREENSHOTS_IN=/some/dir adds invented history first and copies the picture there.
+    const keep = process.env.KEEP_SCREENSHOTS_IN
+    if (keep) await (await import('../../server/seed/steps/0003-history')).insertHistory({ cases: 300, weeks: 12, listeners: 40, tag: `browser-${Date.now()}` })
     const sup = await makeUser('supervisor', 'Browser Supervisor Imke')
     const context = await browser.newContext({ viewport: { width: 1440, height: 900 } })
     const page = await signInAs(context, server.url, sup.email, sup.password)
@@ -40,6 +43,12 @@ describe('the supervisor manages the team in the browser', () => {
     await page.getByTestId('breach-list').waitFor()
     await page.waitForTimeout(500)
     await page.screenshot({ path: join(screenshotDir(), 'dashboard.png'), fullPage: true })
+    if (keep) await page.screenshot({ path: join(keep, 'dashboard.png'), fullPage: true })
+    const status = page.getByTestId('chart-status')
+    await status.getByTestId('view-table').click()
+    await expect.poll(() => status.locator('table').textContent()).toMatch(/In review/)
+    const [download] = await Promise.all([page.waitForEvent('download'), status.getByTestId('download-csv').click()])
+    expect(download.suggestedFilename()).toBe('open-cases-by-status.csv')
     await context.close()
   })
 

@@ -16,7 +16,7 @@ export function useDashboardChart() {
         legend: { top: 0, textStyle: { color: c.text } },
         grid: { left: 52, right: 20, top: 34, bottom: 36, containLabel: true },
       },
-      category: (data: string[]) => ({ type: 'category', data, axisLabel: axis, axisLine: { lineStyle: { color: c.grid } } }),
+      category: (data: string[]) => ({ type: 'category', data, axisLabel: { ...axis, hideOverlap: true, interval: data.length <= 8 ? 0 : 'auto' }, axisLine: { lineStyle: { color: c.grid } } }),
       value: (name: string, extra: object = {}) => ({
         type: 'value', name, nameTextStyle: { color: c.muted }, axisLabel: axis, splitLine: { lineStyle: { color: c.grid } }, ...extra,
       }),
