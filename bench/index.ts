@@ -6,7 +6,7 @@ import { cpus } from 'node:os'
 
 export interface Figure { name: string; value: number; unit: string; target?: string }
 
-const scripts = ['./engine', './signal', './queue', './sockets', './load']
+const scripts = ['./engine', './signal', './queue', './queue-metrics', './sockets', './load']
 
 const rows: (Figure & { script: string })[] = []
 for (const s of scripts) {
