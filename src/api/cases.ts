@@ -133,3 +133,11 @@ export function caseErrorMessage(error: ApiRequestError): string {
   if (error.status >= 500) return 'Something went wrong on our side. Try again in a moment.'
   return error.message
 }
+
+export interface CaseRating { score: number; comment: string; createdAt: string }
+export async function getRating(id: string): Promise<CaseRating | null> {
+  return (await api.get<{ rating: CaseRating | null }>(`${casePath(id)}/rating`)).rating
+}
+export async function rateCase(id: string, input: { score: number; comment: string }): Promise<CaseRating> {
+  return api.post<CaseRating>(`${casePath(id)}/rating`, input)
+}
