@@ -13,6 +13,7 @@ import type { User } from '../../shared/schemas/auth'
 import { isStaff, readableCase } from './access'
 import { publishCase, publishQueue } from './live'
 import { ANALYSE_MEASUREMENT } from './measurements'
+import { refreshScore } from './triage'
 
 /**
  * Stores an upload on a case: the file row, its thumbnail and (for measurements) the analysis job are
@@ -41,6 +42,7 @@ export async function addCaseFile(user: User, caseId: string, upload: UploadedFi
       const seq = await insertEvent({ caseId, actorId: user.id, kind: 'file', data: { fileId: row.id, name: row.original_name, fileKind: row.kind } }, t)
       if (upload.kind === 'measurement') await enqueue(ANALYSE_MEASUREMENT, { fileId: row.id }, { transaction: t })
       await db().query('UPDATE cases SET last_activity_at = now() WHERE id = $1', { bind: [caseId], transaction: t })
+      await refreshScore(caseId, t)
       afterCommit(() => {
         publishCase(caseId, { type: 'case.event', caseId, seq, kind: 'file' })
         publishQueue(caseId)

@@ -69,11 +69,37 @@ export async function computeAndStoreTriage(caseId: string, t?: Transaction): Pr
   return snapshot
 }
 
+/**
+ * Re-weighs the stored score after the case's information changed (a photo or measurement arrived),
+ * from the latest snapshot's flags; the snapshot itself stays as computed.
+ */
+export async function refreshScore(caseId: string, t?: Transaction): Promise<void> {
+  const [row] = await db().query<{ flags: { severity: string }[]; description: string; measurements: number; photos: number }>(
+    `SELECT ts.body->'flags' AS flags, c.description,
+            (SELECT count(*)::int FROM files WHERE case_id = c.id AND kind = 'measurement') AS measurements,
+            (SELECT count(*)::int FROM files WHERE case_id = c.id AND kind = 'photo') AS photos
+       FROM cases c JOIN triage_snapshots ts ON ts.case_id = c.id
+      WHERE c.id = $1 ORDER BY ts.id DESC LIMIT 1`,
+    { bind: [caseId], type: QueryTypes.SELECT, transaction: t },
+  )
+  if (!row) return
+  const { score } = triageScore(row.flags, { measurements: row.measurements, photos: row.photos, descriptionLength: row.description.length })
+  await db().query('UPDATE cases SET score = $2 WHERE id = $1', { bind: [caseId, score], transaction: t })
+}
+
+/** The latest snapshot, with its score re-weighed for what the case holds now (files arrive after submission). */
 export async function latestTriage(caseId: string): Promise<TriageSnapshot | null> {
-  const rows = await db().query<{ body: TriageSnapshot }>('SELECT body FROM triage_snapshots WHERE case_id = $1 ORDER BY id DESC LIMIT 1', {
-    bind: [caseId], type: QueryTypes.SELECT,
-  })
-  return rows[0]?.body ?? null
+  const rows = await db().query<{ body: TriageSnapshot; description: string; measurements: number; photos: number }>(
+    `SELECT ts.body, c.description,
+            (SELECT count(*)::int FROM files WHERE case_id = c.id AND kind = 'measurement') AS measurements,
+            (SELECT count(*)::int FROM files WHERE case_id = c.id AND kind = 'photo') AS photos
+       FROM triage_snapshots ts JOIN cases c ON c.id = ts.case_id WHERE ts.case_id = $1 ORDER BY ts.id DESC LIMIT 1`,
+    { bind: [caseId], type: QueryTypes.SELECT },
+  )
+  const row = rows[0]
+  if (!row) return null
+  const { score, parts } = triageScore(row.body.flags, { measurements: row.measurements, photos: row.photos, descriptionLength: row.description.length })
+  return { ...row.body, score, scoreParts: parts }
 }
 
 /** Every triage of a case, oldest first, reduced to the figures compared between room revisions (computed in SQL). */

@@ -125,3 +125,18 @@ describe('POST /api/cases/:id/files', () => {
     }
   })
 })
+
+describe('the queue score follows the information the case holds', () => {
+  it('adding a photo removes the "no photo yet" points from the score and the triage breakdown', async () => {
+    const listener = await signedIn('listener')
+    const { case: c } = await openCase(listener.c)
+    const before = (await listener.c.get(`/api/cases/${c.id}/triage`).expect(200)).body
+    expect(before.scoreParts.map((p: { label: string }) => p.label)).toContain('no photo yet')
+    await listener.c.agent.post(`/api/cases/${c.id}/files`).set('X-CSRF-Token', listener.c.csrf).attach('file', await jpeg(), 'corner.jpg').expect(201)
+    const after = (await listener.c.get(`/api/cases/${c.id}/triage`).expect(200)).body
+    expect(after.scoreParts.map((p: { label: string }) => p.label)).not.toContain('no photo yet')
+    expect(after.score).toBe(before.score - 3)
+    const detail = (await listener.c.get(`/api/cases/${c.id}`).expect(200)).body
+    expect(detail.score).toBe(after.score)
+  })
+})
