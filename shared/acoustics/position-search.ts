@@ -10,7 +10,7 @@ export interface PositionSearchOptions extends ModalResponseOptions {
   acrossPositions?: number
   /** speaker distances from the front wall to try (default 60) */
   speakerPositions?: number
-  /** seat scan range along x, metres (default: 0.5 m behind the speakers … 0.25 m from the back wall) */
+  /** seat scan range along x, metres (default: max(1 m, 0.8 × speaker spacing) behind the speakers, at most 60 % of the length … 0.25 m from the back wall) */
   seatFromX?: number
   seatToX?: number
   /** speaker scan range from the front wall, metres (default 0.2 m … the nearer of 45 % of the length and 1 m in front of the seat) */
@@ -138,7 +138,11 @@ export function searchPositionsWithSystem(
   const W = room.width
   const speakerX = Math.max(...speakers.map((s) => s.x))
   const clampX = (v: number) => Math.min(L, Math.max(0, v))
-  let seatFrom = clampX(opts.seatFromX ?? Math.min(speakerX + 0.5, 0.5 * L))
+  // A seat closer than about the speakers' spacing stops being a stereo seat: scan from 0.8 × the
+  // spacing (at least 1 m) behind the speakers, but never past 60 % of the length (common practice, no source).
+  const spacing = Math.max(...speakers.map((s) => s.y)) - Math.min(...speakers.map((s) => s.y))
+  const minListening = Math.max(1, 0.8 * spacing)
+  let seatFrom = clampX(opts.seatFromX ?? Math.min(speakerX + minListening, 0.6 * L))
   let seatTo = clampX(opts.seatToX ?? L - Math.min(0.25, 0.05 * L))
   if (seatTo <= seatFrom) { seatFrom = clampX(speakerX); seatTo = L }
   const centreY = W / 2
