@@ -4,7 +4,7 @@
  * Run standalone: `npx tsx bench/queue.ts` (QUEUE_SECONDS, default 10; QUEUE_CASES, default 10 000).
  */
 import { pathToFileURL } from 'node:url'
-import { benchDatabase } from './lib/db'
+import { benchDatabase, benchServer } from './lib/db'
 import { cannon } from './lib/cannon'
 import { benchUser } from './lib/people'
 import type { Figure } from './index'
@@ -58,8 +58,7 @@ export async function run(): Promise<Figure[]> {
   const t0 = Date.now()
   await seedQueue()
   const seedS = (Date.now() - t0) / 1000
-  const { startServer } = await import('../server/server')
-  const server = await startServer({ port: 0, clientDir: false, background: false })
+  const server = await benchServer()
   try {
     const advisor = await benchUser(server.url, 'advisor')
     const headers = { cookie: advisor.cookie }
@@ -76,7 +75,7 @@ export async function run(): Promise<Figure[]> {
       { name: 'queue search errors', value: errs(search), unit: 'count', target: '0' },
     ]
   } finally {
-    await server.close()
+    // the shared bench server stays up for the next bench (bench/lib/db.ts)
   }
 }
 

@@ -38,3 +38,17 @@ export function percentile(xs: number[], p: number): number {
   const s = [...xs].sort((a, b) => a - b)
   return s[Math.min(s.length - 1, Math.max(0, Math.ceil((p / 100) * s.length) - 1))]
 }
+
+let server: Promise<import('../../server/server').RunningServer> | undefined
+/**
+ * One in-process server for the queue and socket benches, left running until the process exits:
+ * closing it closes the process's Sequelize instance, which the data models stay bound to.
+ */
+export function benchServer(): Promise<import('../../server/server').RunningServer> {
+  server ??= (async () => {
+    await benchDatabase()
+    const { startServer } = await import('../../server/server')
+    return startServer({ port: 0, clientDir: false, background: false })
+  })()
+  return server
+}
