@@ -57,7 +57,7 @@ describe('advisor and listener in two browsers, with e-mail both ways', () => {
     await lp.goto(`${server.url}/cases/${c.id}`)
     await lp.getByTestId('thread').waitFor()
     const ap = await signInAs(advisorCtx, server.url, a.email, a.password)
-    await ap.waitForURL(/\/queue$/)
+    await ap.waitForURL(/\/queue(\?|$)/)
     await ap.goto(`${server.url}/desk/cases/${c.id}`)
     await ap.getByTestId('composer-input').waitFor()
 

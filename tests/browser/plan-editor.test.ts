@@ -39,7 +39,7 @@ describe('the plan editor', () => {
 
     const context = await browser.newContext({ viewport: { width: 1500, height: 1000 } })
     const page = await signInAs(context, server.url, advisor.email, advisor.password)
-    await page.waitForURL(/\/queue$/)
+    await page.waitForURL(/\/queue(\?|$)/)
     await page.goto(`${server.url}/desk/cases/${c.id}/plan`)
     const target = page.getByTestId('plan-target-mirror-L-left')
     await target.waitFor({ timeout: 20_000 })

@@ -74,7 +74,7 @@ describe('the supervisor manages the team in the browser', () => {
     await welcome.getByTestId('set-password-password').locator('input').fill('quince-harbour-lamp-93')
     await welcome.getByTestId('set-password-repeat').locator('input').fill('quince-harbour-lamp-93')
     await welcome.getByTestId('set-password-submit').click()
-    await welcome.waitForURL(/\/queue$/, { timeout: 15_000 })
+    await welcome.waitForURL(/\/queue(\?|$)/, { timeout: 15_000 })
 
     const again = await (await browser.newContext()).newPage()
     await again.goto(`${server.url}/welcome/${token}`)
@@ -91,7 +91,7 @@ describe('the supervisor manages the team in the browser', () => {
     const advisor = await makeUser('advisor', 'Browser Advisor Tomasz')
     const advisorContext = await browser.newContext()
     const advisorPage = await signInAs(advisorContext, server.url, advisor.email, advisor.password)
-    await advisorPage.waitForURL(/\/queue$/)
+    await advisorPage.waitForURL(/\/queue(\?|$)/)
 
     const context = await browser.newContext({ viewport: { width: 1280, height: 900 } })
     const page = await signInAs(context, server.url, sup.email, sup.password)
