@@ -210,7 +210,8 @@ describe('the SMTP server down for a while', () => {
       expect(w.last_error).toMatch(/ECONNREFUSED|ESOCKET|connect/i)
     }
     await startSmtp()
-    const until = Date.now() + 90_000
+    // pg-boss backs off exponentially (server/mail/queues.ts), so the next try may come up to about twice the outage later
+    const until = Date.now() + (2 * SMTP_DOWN_S + 90) * 1000
     let rows = waiting
     while (Date.now() < until) {
       rows = await sql(`SELECT message_id, status, attempts, last_error FROM email_outbox WHERE case_id = $1 AND kind = 'reply' AND created_at >= $2`, [caseId, since])
@@ -220,7 +221,7 @@ describe('the SMTP server down for a while', () => {
     expect(rows.map((r) => r.status)).toEqual(['sent', 'sent', 'sent'])
     await sleep(3000) // a late duplicate would show up here
     for (const r of rows) expect(received.filter((m) => m === r.message_id), r.message_id).toHaveLength(1)
-  }, 150_000)
+  }, (3 * SMTP_DOWN_S + 150) * 1000)
 })
 
 /** Every object in the child's storage folder, relative to it. */
