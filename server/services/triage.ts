@@ -31,21 +31,13 @@ export function analyseRoom(room: Room) {
   return computeRoomAnalysis(room)
 }
 
-/** Computes the triage for the case's room revision with the engine and stores it with the engine's version. */
-export async function computeAndStoreTriage(caseId: string, t?: Transaction): Promise<TriageSnapshot> {
-  const c = await findCase(caseId, t)
-  if (!c) throw notFound('That case')
-  const room = await findRoom(c.room.id, c.room.revision, t)
-  if (!room) throw notFound('That room')
-  const a = analyseRoom(room.room)
-  const [counts] = await db().query<{ measurements: number; photos: number }>(
-    `SELECT count(*) FILTER (WHERE kind = 'measurement')::int AS measurements, count(*) FILTER (WHERE kind = 'photo')::int AS photos FROM files WHERE case_id = $1`,
-    { bind: [caseId], type: QueryTypes.SELECT, transaction: t },
-  )
-  const { score, parts } = triageScore(a.flags, { ...counts, descriptionLength: c.description.length })
-  const snapshot: TriageSnapshot = {
+/** The snapshot for one room revision: pure, so it is golden-tested without a database. */
+export function buildTriageSnapshot(room: Room, roomRevision: number, info: { measurements: number; photos: number; descriptionLength: number }, computedAt: Date): TriageSnapshot {
+  const a = analyseRoom(room)
+  const { score, parts } = triageScore(a.flags, info)
+  return {
     engineVersion: ENGINE_VERSION,
-    roomRevision: room.revision,
+    roomRevision,
     room: a.room,
     modes: a.modes,
     modeAnalysis: a.modeAnalysis,
@@ -58,13 +50,27 @@ export async function computeAndStoreTriage(caseId: string, t?: Transaction): Pr
     seat: a.seat,
     score,
     scoreParts: parts,
-    computedAt: new Date().toISOString(),
+    computedAt: computedAt.toISOString(),
   }
+}
+
+/** Computes the triage for the case's room revision with the engine and stores it with the engine's version. */
+export async function computeAndStoreTriage(caseId: string, t?: Transaction): Promise<TriageSnapshot> {
+  const c = await findCase(caseId, t)
+  if (!c) throw notFound('That case')
+  const room = await findRoom(c.room.id, c.room.revision, t)
+  if (!room) throw notFound('That room')
+  const [counts] = await db().query<{ measurements: number; photos: number }>(
+    `SELECT count(*) FILTER (WHERE kind = 'measurement')::int AS measurements, count(*) FILTER (WHERE kind = 'photo')::int AS photos FROM files WHERE case_id = $1`,
+    { bind: [caseId], type: QueryTypes.SELECT, transaction: t },
+  )
+  const snapshot = buildTriageSnapshot(room.room, room.revision, { ...counts, descriptionLength: c.description.length }, new Date())
+  const score = snapshot.score
   await db().query('INSERT INTO triage_snapshots (case_id, room_revision, engine_version, body, score) VALUES ($1, $2, $3, $4, $5)', {
     bind: [caseId, room.revision, ENGINE_VERSION, JSON.stringify(snapshot), score],
     transaction: t,
   })
-  await setScore(caseId, score, a.flags.map((f) => ({ id: f.id, severity: f.severity })), t)
+  await setScore(caseId, score, snapshot.flags.map((f) => ({ id: f.id, severity: f.severity })), t)
   await insertEvent({ caseId, actorId: null, kind: 'triage', data: { roomRevision: room.revision, engineVersion: ENGINE_VERSION, score } }, t)
   return snapshot
 }

@@ -5,29 +5,13 @@ import { describe, expect, it } from 'vitest'
 import type { RoomDescription } from '../../../shared/acoustics'
 import { ENGINE_VERSION, computeRoomAnalysis, inReflectionWindow, roomModes } from '../../../shared/acoustics'
 import { deepFreeze } from './helpers'
+import { compareGolden } from '../../helpers/golden'
 
 const FIXTURES = join(dirname(fileURLToPath(import.meta.url)), '../../fixtures/engine')
 const ROOMS = ['den', 'loft', 'basement'] as const
 const load = (name: string): RoomDescription => JSON.parse(readFileSync(join(FIXTURES, `${name}.input.json`), 'utf8'))
 
-/** Deep comparison with a relative tolerance for numbers (floating-point results may differ in the last bits across engines). */
-function compare(actual: unknown, expected: unknown, path = '$'): string[] {
-  if (typeof expected === 'number' && typeof actual === 'number') {
-    const tol = 1e-9 * Math.max(1, Math.abs(expected))
-    return Math.abs(actual - expected) <= tol ? [] : [`${path}: ${actual} ≠ ${expected}`]
-  }
-  if (Array.isArray(expected)) {
-    if (!Array.isArray(actual)) return [`${path}: not an array`]
-    if (actual.length !== expected.length) return [`${path}: length ${actual.length} ≠ ${expected.length}`]
-    return expected.flatMap((e, i) => compare(actual[i], e, `${path}[${i}]`))
-  }
-  if (expected && typeof expected === 'object') {
-    if (!actual || typeof actual !== 'object') return [`${path}: not an object`]
-    const keys = new Set([...Object.keys(expected), ...Object.keys(actual as object)])
-    return [...keys].flatMap((k) => compare((actual as Record<string, unknown>)[k], (expected as Record<string, unknown>)[k], `${path}.${k}`))
-  }
-  return actual === expected ? [] : [`${path}: ${JSON.stringify(actual)} ≠ ${JSON.stringify(expected)}`]
-}
+const compare = compareGolden
 
 describe('computeRoomAnalysis — golden fixtures (three invented rooms; regenerate on purpose with UPDATE_GOLDEN=1)', () => {
   for (const name of ROOMS) {
