@@ -34,7 +34,8 @@ export async function queuePage(userId: string, query: QueueQuery): Promise<{ ro
   if (query.waitingHours !== undefined) where.push(`c.waiting_since <= now() - make_interval(secs => ${p(query.waitingHours * 3600)})`)
   if (query.q) {
     const ts = `websearch_to_tsquery('english', ${p(query.q)})`
-    where.push(`(c.search @@ ${ts} OR EXISTS (SELECT 1 FROM messages m WHERE m.case_id = c.id AND m.search @@ ${ts}))`)
+    // Two GIN index scans joined by UNION (an OR with a correlated EXISTS would check every case's messages).
+    where.push(`c.id IN (SELECT id FROM cases WHERE search @@ ${ts} UNION SELECT case_id FROM messages WHERE search @@ ${ts})`)
   }
   const whereSql = where.join(' AND ')
   const order = `${sortSql[query.sort]} ${query.dir === 'asc' ? 'ASC' : 'DESC'} NULLS LAST, c.id`
