@@ -140,3 +140,20 @@ describe('the queue score follows the information the case holds', () => {
     expect(detail.score).toBe(after.score)
   })
 })
+
+describe('attachments on messages', () => {
+  it("a message names files uploaded to its case; a file of another case answers 400 and nothing is posted", async () => {
+    const listener = await signedIn('listener')
+    const advisor = await signedIn('advisor')
+    const { case: c } = await openCase(listener.c)
+    const { case: other } = await openCase(listener.c, { title: 'Another room entirely' })
+    const up = (await advisor.c.agent.post(`/api/cases/${c.id}/files`).set('X-CSRF-Token', advisor.c.csrf).attach('file', await png(40, 30), 'panel-sketch.png').expect(201)).body
+    const foreign = (await listener.c.agent.post(`/api/cases/${other.id}/files`).set('X-CSRF-Token', listener.c.csrf).attach('file', await png(20, 20), 'x.png').expect(201)).body
+    const msg = (await advisor.c.post(`/api/cases/${c.id}/messages`, { body: 'Here is the panel layout sketch.', fileIds: [up.id] }).expect(201)).body
+    expect(msg.fileIds).toEqual([up.id])
+    const res = await advisor.c.post(`/api/cases/${c.id}/messages`, { body: 'Wrong file', fileIds: [foreign.id] }).expect(400)
+    expect(res.body.error.fields[0].path).toBe('fileIds')
+    const thread = (await listener.c.get(`/api/cases/${c.id}/messages`).expect(200)).body.messages
+    expect(thread.map((m: { body: string }) => m.body)).not.toContain('Wrong file')
+  })
+})
