@@ -8,6 +8,7 @@ import { join, resolve } from 'node:path'
 import { config } from './config'
 import { configurePassport } from './auth/passport'
 import { csrfProtection } from './middleware/csrf'
+import { rejectNulCharacters } from './middleware/validate'
 import { errorHandler, notFoundHandler } from './middleware/errors'
 import { apiRouter } from './routes'
 
@@ -63,6 +64,7 @@ export function createApp(opts: { clientDir?: string | false } = {}): BuiltApp {
   const passport = configurePassport()
   const api = express.Router()
   api.use(express.json({ limit: '1mb' }))
+  api.use(rejectNulCharacters)
   api.use(sessionMiddleware)
   api.use(passport.session())
   api.use(csrfProtection({ exempt: ['/inbound/'] }))

@@ -19,6 +19,9 @@ export async function startBackground(opts: { http?: Server; sessionMiddleware?:
   if (opts.jobs) {
     await import('./jobs/registry')
     const { startWorkers, stopJobs } = await import('./jobs/queue')
+    const { closeAnalysisPool } = await import('./analysis/pool')
+    // Stops run in reverse: first the job workers (no new work), then the analysis threads.
+    stops.push(closeAnalysisPool)
     try {
       await startWorkers()
     } catch (e) {

@@ -199,3 +199,14 @@ describe('GET /api/cases/:id/triage/history — before/after between room revisi
     await stranger.c.get(`/api/cases/${c.id}/triage/history`).expect(404)
   })
 })
+
+describe('NUL characters (PostgreSQL text cannot hold them)', () => {
+  it('a hand-over note with a NUL answers 400 naming the field, and the assignment is unchanged (found by the body fuzz test)', async () => {
+    const listener = await signedIn('listener')
+    const advisor = await signedIn('advisor')
+    const { case: c } = await openCase(listener.c)
+    const res = await advisor.c.patch(`/api/cases/${c.id}`, { assigneeId: advisor.user.id, handoffNote: 'over to you\u0000' }).expect(400)
+    expect(res.body.error.fields).toEqual([{ path: 'handoffNote', message: expect.stringContaining('NUL') }])
+    expect((await advisor.c.get(`/api/cases/${c.id}`).expect(200)).body.assignee).toBeNull()
+  })
+})

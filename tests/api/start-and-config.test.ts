@@ -30,7 +30,7 @@ describe('configuration is validated at start-up', () => {
 })
 
 /** Runs the start script until it prints its URL, then stops it with SIGINT (Ctrl-C). */
-async function startOnce(env: NodeJS.ProcessEnv): Promise<{ output: string; code: number | null }> {
+async function startOnce(env: NodeJS.ProcessEnv): Promise<{ output: string; code: number | string | null }> {
   const child = spawn(process.execPath, [...tsx, 'server/dev/start.ts', '--no-client'], { env, stdio: ['ignore', 'pipe', 'pipe'] })
   let output = ''
   child.stdout.on('data', (d) => (output += d))
@@ -45,9 +45,9 @@ async function startOnce(env: NodeJS.ProcessEnv): Promise<{ output: string; code
     })
     child.on('exit', () => reject(new Error(`start exited early:\n${output}`)))
   })
-  const code = await new Promise<number | null>((resolve) => {
+  const code = await new Promise<number | string | null>((resolve) => {
     child.removeAllListeners('exit')
-    child.on('exit', (c) => resolve(c))
+    child.on('exit', (c, signal) => resolve(c ?? signal))
     child.kill('SIGINT')
   })
   return { output, code }
@@ -65,7 +65,7 @@ describe('npm start provisions once and reuses its cluster and data', () => {
       expect(first.output).toMatch(/Creating a private PostgreSQL cluster/)
       expect(first.output).toMatch(/Seeded the demo scenario/)
       expect(first.output).toMatch(/listener@roomwright\.test/)
-      expect(first.code).toBe(0)
+      expect(first.code, first.output).toBe(0)
 
       // Between the runs the cluster is down: nothing answers on its port.
       const probe = new pg.Client({ host: '127.0.0.1', port: pgPort, user: 'roomwright', database: 'roomwright', connectionTimeoutMillis: 1500 })
@@ -74,7 +74,7 @@ describe('npm start provisions once and reuses its cluster and data', () => {
       const second = await startOnce(env)
       expect(second.output).not.toMatch(/Creating a private PostgreSQL cluster/)
       expect(second.output).not.toMatch(/Seeded the demo scenario/)
-      expect(second.code).toBe(0)
+      expect(second.code, second.output).toBe(0)
     } finally {
       spawnSync('runuser', ['-u', 'postgres', '--', '/bin/true'])
       rmSync(dir, { recursive: true, force: true })
