@@ -61,14 +61,7 @@ async function main() {
     if (smtp) say(`Fake mail server on 127.0.0.1:${smtp.port}: supervisors read it at /mailbox`)
     const { startServer } = await import('../server')
     const server = await startServer()
-    const { DEMO_PASSWORD, demoPeople } = await import('../seed/people')
-    console.log(`\nRoomwright is running at ${server.url.replace('127.0.0.1', 'localhost')}\n`)
-    if (embedded) {
-      console.log(`Demo sign-ins (password "${DEMO_PASSWORD}" for all):`)
-      for (const p of demoPeople.slice(0, 3)) console.log(`  ${p.role.padEnd(10)} ${p.email}`)
-      console.log('  … and more listeners and an advisor; see the README.\n')
-    }
-    console.log('Press Ctrl-C to stop.')
+    // Ctrl-C handling is in place before anything is printed, so a signal right after the URL appears is handled.
     let stopping = false
     for (const sig of ['SIGINT', 'SIGTERM'] as const) {
       process.on(sig, () => {
@@ -83,6 +76,14 @@ async function main() {
           })
       })
     }
+    const { DEMO_PASSWORD, demoPeople } = await import('../seed/people')
+    console.log(`\nRoomwright is running at ${server.url.replace('127.0.0.1', 'localhost')}\n`)
+    if (embedded) {
+      console.log(`Demo sign-ins (password "${DEMO_PASSWORD}" for all):`)
+      for (const p of demoPeople.slice(0, 3)) console.log(`  ${p.role.padEnd(10)} ${p.email}`)
+      console.log('  … and more listeners and an advisor; see the README.\n')
+    }
+    console.log('Press Ctrl-C to stop.')
   } catch (e) {
     stopCluster()
     throw e

@@ -38,7 +38,7 @@ async function startOnce(env: NodeJS.ProcessEnv): Promise<{ output: string; code
   await new Promise<void>((resolve, reject) => {
     const timer = setTimeout(() => reject(new Error(`start timed out:\n${output}`)), 120_000)
     child.stdout.on('data', () => {
-      if (/Roomwright is running at/.test(output)) {
+      if (/Press Ctrl-C to stop/.test(output)) {
         clearTimeout(timer)
         resolve()
       }
