@@ -16,7 +16,7 @@ export default defineConfig({
   test: {
     environment: 'node',
     include: ['tests/**/*.test.ts'],
-    testTimeout: 30_000,
+    testTimeout: 60_000,
     hookTimeout: 60_000,
     maxWorkers: 2,
     globalSetup: ['tests/helpers/global-setup.ts'],

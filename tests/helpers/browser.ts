@@ -19,10 +19,15 @@ export async function startProduct(): Promise<RunningServer> {
 
 export async function signInAs(context: BrowserContext, baseUrl: string, email: string, password: string): Promise<Page> {
   const page = await context.newPage()
-  await page.goto(`${baseUrl}/sign-in`)
+  page.setDefaultTimeout(45_000)
+  await page.goto(`${baseUrl}/sign-in`, { waitUntil: 'networkidle' })
   await page.getByTestId('signin-email').locator('input').fill(email)
   await page.getByTestId('signin-password').locator('input').fill(password)
+  // Wait for the sign-in answer itself, so a slow machine shows up as slowness and a refusal as its status.
+  const answer = page.waitForResponse((r) => r.url().endsWith('/api/auth/login') && r.request().method() === 'POST', { timeout: 45_000 })
   await page.getByTestId('signin-submit').click()
+  const res = await answer
+  if (res.status() !== 200 && res.status() !== 401 && res.status() !== 403) throw new Error(`sign-in answered ${res.status()}: ${await res.text()}`)
   return page
 }
 
