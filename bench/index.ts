@@ -6,6 +6,9 @@ import { cpus } from 'node:os'
 
 export interface Figure { name: string; value: number; unit: string; target?: string }
 
+// Bulk loads of 10 000 cases take longer than a request may.
+process.env.DB_STATEMENT_TIMEOUT_MS ??= '300000'
+
 const scripts = ['./engine', './signal', './queue', './queue-metrics', './sockets', './load']
 
 const rows: (Figure & { script: string })[] = []

@@ -32,6 +32,8 @@ const schema = z.object({
   INBOUND_EMAIL_SECRET: z.string().min(16).default('roomwright-development-inbound-secret'),
   JOBS: z.enum(['on', 'off']).default('on'),
   LOGIN_RATE_LIMIT: z.coerce.number().int().positive().default(20),
+  /** Longest one SQL statement may run, ms: requests fail fast instead of piling up. Benchmarks raise it for bulk loads. */
+  DB_STATEMENT_TIMEOUT_MS: z.coerce.number().int().min(1000).max(3_600_000).default(15_000),
 })
 
 export type Config = z.infer<typeof schema>

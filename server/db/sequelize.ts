@@ -9,7 +9,7 @@ export function db(): Sequelize {
     dialect: 'postgres',
     logging: false,
     pool: { max: 10, min: 0, idle: 10_000, acquire: 5_000 },
-    dialectOptions: { connectionTimeoutMillis: 3_000, statement_timeout: 15_000 },
+    dialectOptions: { connectionTimeoutMillis: 3_000, statement_timeout: config().DB_STATEMENT_TIMEOUT_MS },
     define: { underscored: true },
   })
   return instance
