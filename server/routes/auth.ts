@@ -1,35 +1,16 @@
-import { Router, type Request } from 'express'
+import { passwordAttemptLimiter, signIn } from '../auth/session'
+import { Router } from 'express'
 import passport from 'passport'
-import { rateLimit } from 'express-rate-limit'
 import { validate } from '../middleware/validate'
 import { requireSignedIn, currentUser } from '../middleware/guards'
 import { csrfToken } from '../middleware/csrf'
 import { loginSchema, registerSchema, updatePreferencesSchema, type User } from '../../shared/schemas/auth'
 import { getPreferences, registerListener, setPreferences } from '../services/auth'
 import { AppError } from '../errors'
-import { config } from '../config'
-
-/** Regenerates the session (against fixation, OWASP session management) and signs the user in. */
-function signIn(req: Request, user: User): Promise<void> {
-  const token = req.session.csrfToken
-  return new Promise((resolve, reject) => {
-    req.session.regenerate((err) => {
-      if (err) return reject(err)
-      req.session.csrfToken = token
-      req.login(user, { keepSessionInfo: true } as passport.LogInOptions, (e) => (e ? reject(e) : resolve()))
-    })
-  })
-}
 
 export function authRouter(): Router {
   const router = Router()
-  const limiter = rateLimit({
-    windowMs: 15 * 60 * 1000,
-    limit: config().LOGIN_RATE_LIMIT,
-    standardHeaders: 'draft-8',
-    legacyHeaders: false,
-    handler: (_req, _res, next) => next(new AppError('Too many attempts; wait a few minutes and try again', { status: 429, code: 'rate_limited' })),
-  })
+  const limiter = passwordAttemptLimiter()
 
   router.get('/csrf', (req, res) => res.json({ token: csrfToken(req) }))
 

@@ -1,40 +1,21 @@
-import { Router, type Request } from 'express'
+import { passwordAttemptLimiter, signIn } from '../auth/session'
+import { Router } from 'express'
 import passport from 'passport'
-import { rateLimit } from 'express-rate-limit'
 import { z } from 'zod'
 import { currentUser, requireRole } from '../middleware/guards'
 import { validate } from '../middleware/validate'
 import { acceptInvitationSchema, auditQuerySchema, invitationTokenSchema, inviteSchema, roleChangeSchema } from '../../shared/schemas/team'
 import type { User } from '../../shared/schemas/auth'
 import * as team from '../services/team'
-import { AppError } from '../errors'
-import { config } from '../config'
 
 const supervisor = requireRole('supervisor')
 const idParam = validate(z.object({ id: z.string().uuid() }), 'params')
 
-/** Regenerates the session (against fixation) and signs the new member in, as sign-in does. */
-function signIn(req: Request, user: User): Promise<void> {
-  const token = req.session.csrfToken
-  return new Promise((resolve, reject) => {
-    req.session.regenerate((err) => {
-      if (err) return reject(err)
-      req.session.csrfToken = token
-      req.login(user, { keepSessionInfo: true } as passport.LogInOptions, (e) => (e ? reject(e) : resolve()))
-    })
-  })
-}
 
 /** Team management for supervisors, and the public end of an invitation link. */
 export function teamAdminRouter(): Router {
   const router = Router()
-  const limiter = rateLimit({
-    windowMs: 15 * 60 * 1000,
-    limit: config().LOGIN_RATE_LIMIT,
-    standardHeaders: 'draft-8',
-    legacyHeaders: false,
-    handler: (_req, _res, next) => next(new AppError('Too many attempts; wait a few minutes and try again', { status: 429, code: 'rate_limited' })),
-  })
+  const limiter = passwordAttemptLimiter()
 
   router.get('/members', supervisor, async (_req, res) => res.json({ members: await team.listMembers() }))
   router.post('/members/:id/deactivate', supervisor, idParam, async (req, res) => res.json(await team.deactivate(currentUser(req), res.locals.params.id)))
