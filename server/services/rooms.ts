@@ -8,6 +8,7 @@ import type { Room, RoomRecord } from '../../shared/schemas/room'
 import type { User } from '../../shared/schemas/auth'
 import { readableRoom } from './access'
 import { analyseRoom, computeAndStoreTriage } from './triage'
+import { findUserById } from '../data/users'
 import { publishCase, publishQueue } from './live'
 
 /** Material ids must come from the engine's materials table (field paths in the 400). */
@@ -56,7 +57,9 @@ export async function saveRoomRevision(user: User, id: string, room: Room): Prom
   return saved
 }
 
-export function previewRoom(room: Room) {
+/** The engine's preview, its setup-flag messages in the signed-in person's units. */
+export async function previewRoom(room: Room, userId?: string) {
   checkMaterials(room)
-  return analyseRoom(room)
+  const units = userId ? (await findUserById(userId))?.units ?? 'metric' : 'metric'
+  return analyseRoom(room, units)
 }

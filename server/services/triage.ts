@@ -2,6 +2,7 @@ import { QueryTypes, type Transaction } from 'sequelize'
 import { db } from '../db/sequelize'
 import { findCase, setScore } from '../data/cases'
 import { findRoom } from '../data/rooms'
+import { findUserById } from '../data/users'
 import { insertEvent } from '../data/events'
 import { computeRoomAnalysis, ENGINE_VERSION } from '../../shared/acoustics'
 import { flattenReflections, type TriageHistoryEntry, type TriageSnapshot } from '../../shared/schemas/triage'
@@ -27,13 +28,14 @@ export function triageScore(flags: { severity: string }[], info: { measurements:
   return { score: parts.reduce((s, p) => s + p.points, 0), parts }
 }
 
-export function analyseRoom(room: Room) {
-  return computeRoomAnalysis(room)
+/** The engine's analysis; `units` is the listener's choice, used for lengths in the setup-flag messages. */
+export function analyseRoom(room: Room, units: 'metric' | 'imperial' = 'metric') {
+  return computeRoomAnalysis(room, { units })
 }
 
 /** The snapshot for one room revision: pure, so it is golden-tested without a database. */
-export function buildTriageSnapshot(room: Room, roomRevision: number, info: { measurements: number; photos: number; descriptionLength: number }, computedAt: Date): TriageSnapshot {
-  const a = analyseRoom(room)
+export function buildTriageSnapshot(room: Room, roomRevision: number, info: { measurements: number; photos: number; descriptionLength: number }, computedAt: Date, units: 'metric' | 'imperial' = 'metric'): TriageSnapshot {
+  const a = analyseRoom(room, units)
   const { score, parts } = triageScore(a.flags, info)
   return {
     engineVersion: ENGINE_VERSION,
@@ -64,7 +66,9 @@ export async function computeAndStoreTriage(caseId: string, t?: Transaction): Pr
     `SELECT count(*) FILTER (WHERE kind = 'measurement')::int AS measurements, count(*) FILTER (WHERE kind = 'photo')::int AS photos FROM files WHERE case_id = $1`,
     { bind: [caseId], type: QueryTypes.SELECT, transaction: t },
   )
-  const snapshot = buildTriageSnapshot(room.room, room.revision, { ...counts, descriptionLength: c.description.length }, new Date())
+  // setup-flag messages in the listener's units (the listener reads them on the case page)
+  const units = (await findUserById(c.listenerId))?.units ?? 'metric'
+  const snapshot = buildTriageSnapshot(room.room, room.revision, { ...counts, descriptionLength: c.description.length }, new Date(), units)
   const score = snapshot.score
   await db().query('INSERT INTO triage_snapshots (case_id, room_revision, engine_version, body, score) VALUES ($1, $2, $3, $4, $5)', {
     bind: [caseId, room.revision, ENGINE_VERSION, JSON.stringify(snapshot), score],
