@@ -76,6 +76,12 @@ export const routeEntries: Record<string, Scenario[]> = {
   ],
   'POST /api/auth/register': [sc(at(() => '/api/auth/register', { fresh: 'session', body: () => ({ email: `matrix-${tag()}@example.test`, password: 'a-long-enough-password', name: 'New Listener' }) }), all(201))],
   'POST /api/auth/logout': [sc(at(() => '/api/auth/logout', { fresh: 'session' }), all(204))],
+  'POST /api/auth/password': [sc(at(() => '/api/auth/password', { note: 'a wrong current password', body: () => ({ currentPassword: 'not-my-password-77', newPassword: 'lantern-orchard-basalt-9' }) }), E(401, 400, 400, 400, 400))],
+  'POST /api/auth/password-reset/request': [
+    sc(at(() => '/api/auth/password-reset/request', { note: 'an address with no account', body: () => ({ email: `nobody-${tag()}@example.test` }) }), all(202)),
+    sc(at(() => '/api/auth/password-reset/request', { note: "the owner's address", body: (w) => ({ email: w.owner.email }) }), all(202)),
+  ],
+  'POST /api/auth/password-reset': [sc(at(() => '/api/auth/password-reset', { note: 'a link that was never sent', body: () => ({ token: 'Q'.repeat(43), password: 'lantern-orchard-basalt-9' }) }), all(410))],
   'GET /api/auth/me': [sc(at(() => '/api/auth/me'), E(401, 200, 200, 200, 200))],
   'GET /api/auth/preferences': [sc(at(() => '/api/auth/preferences'), E(401, 200, 200, 200, 200))],
   'PATCH /api/auth/preferences': [sc(at(() => '/api/auth/preferences', { body: () => ({ units: 'metric' }) }), E(401, 200, 200, 200, 200))],
@@ -177,6 +183,7 @@ export const routeEntries: Record<string, Scenario[]> = {
   'POST /api/plans/preview': [sc(at(() => '/api/plans/preview', { note: 'empty body: staff reach validation', body: () => ({}) }), E(401, 403, 403, 400, 400))],
 
   'GET /api/team/members': [sc(at(() => '/api/team/members'), E(401, 403, 403, 403, 200))],
+  'GET /api/team/listeners': [sc(at(() => '/api/team/listeners?search=matrix'), E(401, 403, 403, 403, 200))],
   'POST /api/team/members/:id/deactivate': [sc(at(() => `/api/team/members/${randomUUID()}/deactivate`, { note: 'an unknown member' }), E(401, 403, 403, 403, 404))],
   'POST /api/team/members/:id/reactivate': [sc(at(() => `/api/team/members/${randomUUID()}/reactivate`, { note: 'an unknown member' }), E(401, 403, 403, 403, 404))],
   'PUT /api/team/members/:id/role': [sc(at(() => `/api/team/members/${randomUUID()}/role`, { note: 'an unknown member', body: () => ({ role: 'advisor' }) }), E(401, 403, 403, 403, 404))],
