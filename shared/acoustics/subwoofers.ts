@@ -85,10 +85,12 @@ export function subwooferCandidates(room: RoomBox, opts: { spacing?: number; hei
   }
   const nx = steps(room.length)
   const ny = steps(room.width)
-  for (let i = 0; i <= ny; i++) add(0, (room.width * i) / ny) // front wall
-  for (let i = 0; i <= ny; i++) add(room.length, (room.width * i) / ny) // back wall
-  for (let i = 0; i <= nx; i++) add((room.length * i) / nx, 0) // left wall
-  for (let i = 0; i <= nx; i++) add((room.length * i) / nx, room.width) // right wall
+  // the last step lands exactly on the far wall (len·n/n can round past it)
+  const at = (len: number, i: number, n: number) => (i === n ? len : (len * i) / n)
+  for (let i = 0; i <= ny; i++) add(0, at(room.width, i, ny)) // front wall
+  for (let i = 0; i <= ny; i++) add(room.length, at(room.width, i, ny)) // back wall
+  for (let i = 0; i <= nx; i++) add(at(room.length, i, nx), 0) // left wall
+  for (let i = 0; i <= nx; i++) add(at(room.length, i, nx), room.width) // right wall
   return out
 }
 

@@ -55,6 +55,12 @@ describe('subwooferCandidates', () => {
     expect(c.every((p) => p.z === 0.3 && (p.x === 0 || p.x === 6 || p.y === 0 || p.y === 4.5))).toBe(true)
     expect(new Set(c.map((p) => `${p.x},${p.y}`)).size).toBe(c.length)
   })
+  it('keeps the far corners inside a room whose width does not divide evenly in binary (3.7 m: 3.7·6/6 rounds past 3.7)', () => {
+    const r = { length: 5.2, width: 3.7, height: 2.4 }
+    const c = subwooferCandidates(r)
+    expect(c.every((p) => p.x <= r.length && p.y <= r.width)).toBe(true)
+    expect(() => searchSubwoofers(r, [{ x: 3.1, y: 1.85, z: 1.1 }], { counts: [1] })).not.toThrow()
+  })
 })
 
 describe('searchSubwoofers', () => {
