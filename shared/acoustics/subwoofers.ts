@@ -150,7 +150,7 @@ function figures(tr: Transfers, sum: Float64Array[], sc: Scratch): { seatToSeatD
   let spread = 0
   for (let s = 0; s < S; s++) {
     const p = sc.power[s]
-    for (let f = 0; f < F; f++) sc.db[s * F + f] = 10 * Math.log10(Math.max(p[f], floor))
+    for (let f = 0; f < F; f++) sc.db[s * F + f] = DB_PER_NEPER_POWER * Math.log(Math.max(p[f], floor))
     spread += spreadDbOfPower(tr.sys, p, sc.prefix)
   }
   let std = 0
@@ -165,6 +165,44 @@ function figures(tr: Transfers, sum: Float64Array[], sc: Scratch): { seatToSeatD
     std /= F
   }
   return { seatToSeatDb: std, meanSpreadDb: spread / S }
+}
+
+const DB_PER_NEPER_POWER = 10 / Math.LN10
+
+/**
+ * The seat-to-seat figure alone, abandoned (Infinity) once its running sum shows it cannot come within
+ * `bound`: the search's inner loop, equal to `figures(...).seatToSeatDb` whenever it returns a number.
+ */
+function seatToSeatBounded(tr: Transfers, sum: Float64Array[], sc: Scratch, bound: number): number {
+  const { F, S } = tr
+  if (S < 2) return 0
+  let mean = 0
+  for (let s = 0; s < S; s++) {
+    const p = sc.power[s]
+    const x = sum[s]
+    for (let f = 0; f < F; f++) {
+      const v = x[2 * f] * x[2 * f] + x[2 * f + 1] * x[2 * f + 1]
+      p[f] = v
+      mean += v
+    }
+  }
+  mean /= S * F
+  const floor = mean * 10 ** (FLOOR_DB / 10)
+  const limit = bound * F
+  let std = 0
+  for (let f = 0; f < F; f++) {
+    let a = 0
+    let b = 0
+    for (let s = 0; s < S; s++) {
+      const v = DB_PER_NEPER_POWER * Math.log(Math.max(sc.power[s][f], floor))
+      a += v
+      b += v * v
+    }
+    const m = a / S
+    std += Math.sqrt(Math.max(0, b / S - m * m))
+    if (std > limit) return Infinity
+  }
+  return std / F
 }
 
 function sumOf(tr: Transfers, idx: readonly number[], gains: readonly number[]): Float64Array[] {
@@ -289,8 +327,11 @@ export function searchSubwoofers(room: RoomBox, seats: Point[], opts: SubwooferS
         for (let gi = 0; gi < trySets.length; gi++) {
           const g = trySets[gi]
           const sum = exhaustive ? sumOf(tr, idx, g) : partial[k]
+          const full = top.length < keep
+          const bound = full ? Infinity : top[top.length - 1].fig.seatToSeatDb + 2 * TIE_DB
+          if (seatToSeatBounded(tr, sum, sc, bound) === Infinity) continue
           const fig = figures(tr, sum, sc)
-          if (top.length < keep || better(fig, top[top.length - 1].fig)) {
+          if (full || better(fig, top[top.length - 1].fig)) {
             consider({ idx: [...idx], gains: exhaustive ? sets[gi] : new Array(k).fill(0), fig })
           }
         }
