@@ -28,7 +28,7 @@ export {
   squareMetresToSquareFeet, squareFeetToSquareMetres, cubicMetresToCubicFeet, METRES_PER_FOOT, METRES_PER_INCH,
 } from './units'
 export {
-  modePressure, modePositionClass, modeCountEstimate, modalDensity, analyzeModes, compareRatios, modalResponse, rt60At,
+  modePressure, modePositionClass, modeCountEstimate, modalDensity, analyzeModes, compareRatios, modalResponse, rt60At, MODAL_CONVERGENCE_DB,
 } from './modes'
 export type { ModeAnalysis, ModeCoincidence, AxialGap, ThirdOctaveModeCount, RatioReference, ModalResponse, ModalResponseOptions, Rt60Spec } from './modes'
 export { subwooferCandidates, subwooferLayoutResponse } from './subwoofers'
