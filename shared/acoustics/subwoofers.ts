@@ -3,7 +3,7 @@
  * relative level) so that the bass is alike at every seat, by the engine's modal model.
  */
 import type { ModalResponseOptions, ModalSystem } from './modes'
-import { buildModalSystem, sourceWeights, spreadDbOfPower } from './modes'
+import { addSeries, buildModalSystem, farSeries, smoothPower, sourceWeights, spreadDbOfPower } from './modes'
 import type { Point, RoomBox } from './types'
 import { assertFinite, assertPointInRoom, assertPositive, assertRoom } from './validate'
 
@@ -107,19 +107,32 @@ function transfers(sys: ModalSystem, candidates: readonly Point[], seats: readon
   const F = sys.freqsHz.length
   const M = sys.modeCount
   const seatW = seats.map((s) => sourceWeights(sys, [s]))
+  const total = M + sys.farCount
+  const w = new Float64Array(total)
+  const re = new Float64Array(F)
+  const im = new Float64Array(F)
+  // the engine's sum: the exactly summed modes, then the far modes through their series
   const t = candidates.map((c) => {
     const cw = sourceWeights(sys, [c])
     return seatW.map((sw) => {
-      const out = new Float64Array(2 * F)
+      for (let m = 0; m < total; m++) w[m] = cw[m] * sw[m]
+      re.fill(0)
+      im.fill(0)
       for (let m = 0; m < M; m++) {
-        const w = cw[m] * sw[m]
-        if (Math.abs(w) < 1e-12) continue
+        const wm = w[m]
+        if (Math.abs(wm) < 1e-12) continue
         const base = m * F
         for (let f = 0; f < F; f++) {
-          out[2 * f] += w * sys.hRe[base + f]
-          out[2 * f + 1] += w * sys.hIm[base + f]
+          re[f] += wm * sys.hRe[base + f]
+          im[f] += wm * sys.hIm[base + f]
         }
       }
+      if (sys.farCount) {
+        const { aRe, aIm } = farSeries(sys, w, 0, sys.farCount)
+        addSeries(sys, aRe, aIm, re, im)
+      }
+      const out = new Float64Array(2 * F)
+      for (let f = 0; f < F; f++) { out[2 * f] = re[f]; out[2 * f + 1] = im[f] }
       return out
     })
   })
@@ -417,16 +430,13 @@ export function subwooferLayoutResponse(
   r.sc.power.forEach((p) => p.forEach((v) => { mean += v }))
   mean = mean / (F * seats.length) || Number.MIN_VALUE
   const floor = mean * 10 ** (FLOOR_DB / 10)
-  const half = Math.round((sys.opts.smoothingOctaves * sys.opts.pointsPerOctave) / 2)
   const seatsOut = r.sc.power.map((p) => {
     const levelDb: number[] = []
     const smoothedDb: number[] = []
+    const smooth = smoothPower(sys, p)
     for (let f = 0; f < F; f++) {
       levelDb.push(10 * Math.log10(Math.max(p[f], floor) / mean))
-      let s = 0
-      let k = 0
-      for (let j = Math.max(0, f - half); j <= Math.min(F - 1, f + half); j++) { s += p[j]; k++ }
-      smoothedDb.push(10 * Math.log10(Math.max(s / k, floor) / mean))
+      smoothedDb.push(10 * Math.log10(Math.max(smooth[f], floor) / mean))
     }
     return { levelDb, smoothedDb, spreadDb: spreadDbOfPower(sys, p, new Float64Array(F + 1)) }
   })
