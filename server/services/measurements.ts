@@ -32,7 +32,7 @@ async function predictedFor(caseId: string): Promise<PredictedReflection[] | und
 
 /**
  * The case's room as the listener stated it, its main seat and bass sources, so the analysis can
- * explain the measured low-frequency peaks (null: no room found).
+ * explain the measured low-frequency peaks (undefined: no room found).
  */
 async function diagnosisFor(caseId: string): Promise<DiagnosisContext | undefined> {
   const c = await findCase(caseId)
