@@ -105,6 +105,17 @@ describe('searchSubwoofers', () => {
     expect(r.best[0].layout.seatToSeatDb).toBeLessThanOrEqual(one.seatToSeatDb + 1e-9)
   })
 
+  it('four subwoofers at the four wall midpoints cut it well below one corner subwoofer too, over 20–80 Hz (Welti & Devantier, JAES 54(5), 2006; the band of their comparison from memory)', () => {
+    const four = [...opposite, { x: 3, y: 0, z }, { x: 3, y: 4.5, z }]
+    const o = { toHz: 80 }
+    const one = subwooferLayoutResponse(room, seats, { positions: corner }, o)
+    expect(subwooferLayoutResponse(room, seats, { positions: four }, o).seatToSeatDb).toBeLessThan(0.5 * one.seatToSeatDb)
+    expect(subwooferLayoutResponse(room, seats, { positions: opposite }, o).seatToSeatDb).toBeLessThan(0.5 * one.seatToSeatDb)
+    // the search over the same band finds a four-subwoofer layout at least as even
+    const r = searchSubwoofers(room, seats, { ...o, counts: [4] })
+    expect(r.best[0].layout.seatToSeatDb).toBeLessThanOrEqual(subwooferLayoutResponse(room, seats, { positions: four }, o).seatToSeatDb + 1e-9)
+  })
+
   it('the figures a layout promises equal the modal model: the spread of modalResponse at each seat, and an independent modal sum for the seat-to-seat variation with unequal levels', () => {
     const o = { rt60: 0.45 }
     const r = searchSubwoofers(room, seats, { ...o, counts: [2, 4], gainStepsDb: [0, -4, -8] })

@@ -49,6 +49,20 @@ describe('explainLowFrequencyPeaks', () => {
     expect(describeLowFrequencyFeature(p!)).toMatch(/^24 Hz: unexplained, \d+ dB/)
   })
 
+  it('does not explain a peak by a mode the seat sits on a null of: a lone resonance at the first width mode heard at half the width is unexplained', () => {
+    // (0,1,0) at c/(2·3.8) ≈ 45.2 Hz (Rayleigh) has its nodal plane at y = W/2; the seat there cannot hear it
+    const mid = { ...seat, y: room.width / 2 }
+    const fs = 8000
+    const x = new Float64Array(3 * fs)
+    const f = rayleigh(room, [0, 1, 0])
+    for (let i = 40; i < x.length; i++) x[i] = Math.exp((-3 * Math.LN10 * (i - 40)) / fs / 0.8) * Math.sin((2 * Math.PI * f * (i - 40)) / fs)
+    const onNull = explainLowFrequencyPeaks({ samples: x, sampleRate: fs }, room, source, mid)
+    expect(onNull.peaks.find((q) => Math.abs(q.hz - f) < 1)?.cause).toEqual({ kind: 'unexplained' })
+    // the same response, the seat off the null: the width mode explains it
+    const off = explainLowFrequencyPeaks({ samples: x, sampleRate: fs }, room, source, seat)
+    expect(off.peaks.find((q) => Math.abs(q.hz - f) < 1)?.cause).toMatchObject({ kind: 'mode', indices: [0, 1, 0] })
+  })
+
   it("a single mode's peak falls 30 dB in half its reverberation time (exponential decay: 60 dB in T, closed form)", () => {
     const T = 0.6
     const fs = 8000
