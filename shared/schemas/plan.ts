@@ -102,12 +102,12 @@ export function planIssues(body: PlanBody, room: { length: number; width: number
     if (body.subwoofers.gainsDb.length !== body.subwoofers.positions.length) {
       issues.push({ path: 'subwoofers.gainsDb', message: `give one level per subwoofer (${body.subwoofers.positions.length})` })
     }
-    body.subwoofers.positions.forEach((p, i) => points.push([`subwoofers.positions.${i}`, p]))
-  }
-  for (const [path, p] of points.slice(points.length - (body.subwoofers?.positions.length ?? 0))) {
-    if (p.x > room.length) issues.push({ path: `${path}.x`, message: `x = ${p.x} m lies beyond the length ${room.length} m` })
-    if (p.y > room.width) issues.push({ path: `${path}.y`, message: `y = ${p.y} m lies beyond the width ${room.width} m` })
-    if (p.z > room.height) issues.push({ path: `${path}.z`, message: `z = ${p.z} m lies above the height ${room.height} m` })
+    body.subwoofers.positions.forEach((p, i) => {
+      const path = `subwoofers.positions.${i}`
+      if (p.x > room.length) issues.push({ path: `${path}.x`, message: `x = ${p.x} m lies beyond the length ${room.length} m` })
+      if (p.y > room.width) issues.push({ path: `${path}.y`, message: `y = ${p.y} m lies beyond the width ${room.width} m` })
+      if (p.z > room.height) issues.push({ path: `${path}.z`, message: `z = ${p.z} m lies above the height ${room.height} m` })
+    })
   }
   const known = new Set(['seat', 'speakers', ...ids])
   body.order.forEach((id, i) => { if (!known.has(id)) issues.push({ path: `order.${i}`, message: `no change has the id "${id}"` }) })

@@ -26,5 +26,7 @@ describe("a plan's subwoofer item", () => {
     expect(predictPlan(room, plan({})).subwoofers).toBeUndefined()
     const body = plan({ subwoofers: { positions: best.positions, gainsDb: [0], note: '' } })
     expect(planIssues(body, room).map((i) => i.path)).toContain('subwoofers.gainsDb')
+    const outside = plan({ subwoofers: { positions: [{ x: 1, y: 9, z: 0.3 }], gainsDb: [0], note: '' } })
+    expect(planIssues(outside, room).map((i) => i.path)).toEqual(['subwoofers.positions.0.y'])
   })
 })
