@@ -43,6 +43,18 @@ export type PlanTreatmentInput = z.input<typeof planTreatmentSchema>
 
 export const planSpeakerMoveSchema = planPointSchema.extend({ label: z.string().trim().min(1).max(40) })
 
+/**
+ * Subwoofers the plan places (a layout of the subwoofer search, adopted as it is or edited): where
+ * each stands and its relative level, 0 dB for the loudest. Predicted on its own (seat-to-seat
+ * variation and spread before and after), beside the changes below.
+ */
+export const planSubwoofersSchema = z.object({
+  positions: z.array(planPointSchema).min(1, 'place at least one subwoofer').max(4),
+  gainsDb: z.array(z.number().finite().min(-30, 'a subwoofer turned down more than 30 dB is as good as off').max(0, 'levels are relative to the loudest: 0 dB or below')).max(4),
+  note: z.string().max(2000).default(''),
+})
+export type PlanSubwoofers = z.output<typeof planSubwoofersSchema>
+
 /** The content of one plan version. Change ids: 'seat', 'speakers' and each treatment's id. */
 export const planBodySchema = z.object({
   /** where the main seat should go (null: stays) */
@@ -56,6 +68,8 @@ export const planBodySchema = z.object({
   notes: z.string().max(20_000).default(''),
   /** the advisor's order of the changes (ids); empty: biggest effect first */
   order: z.array(z.string().max(40)).max(80).default([]),
+  /** subwoofers to place (absent: none) */
+  subwoofers: planSubwoofersSchema.optional(),
 })
 export type PlanBody = z.output<typeof planBodySchema>
 export type PlanBodyInput = z.input<typeof planBodySchema>
@@ -83,6 +97,17 @@ export function planIssues(body: PlanBody, room: { length: number; width: number
     if (p.x > room.length) issues.push({ path: `${path}.x`, message: `x = ${p.x} m lies beyond the length ${room.length} m` })
     if (p.y > room.width) issues.push({ path: `${path}.y`, message: `y = ${p.y} m lies beyond the width ${room.width} m` })
     if (p.z > room.height) issues.push({ path: `${path}.z`, message: `z = ${p.z} m lies above the height ${room.height} m` })
+  }
+  if (body.subwoofers) {
+    if (body.subwoofers.gainsDb.length !== body.subwoofers.positions.length) {
+      issues.push({ path: 'subwoofers.gainsDb', message: `give one level per subwoofer (${body.subwoofers.positions.length})` })
+    }
+    body.subwoofers.positions.forEach((p, i) => {
+      const path = `subwoofers.positions.${i}`
+      if (p.x > room.length) issues.push({ path: `${path}.x`, message: `x = ${p.x} m lies beyond the length ${room.length} m` })
+      if (p.y > room.width) issues.push({ path: `${path}.y`, message: `y = ${p.y} m lies beyond the width ${room.width} m` })
+      if (p.z > room.height) issues.push({ path: `${path}.z`, message: `z = ${p.z} m lies above the height ${room.height} m` })
+    })
   }
   const known = new Set(['seat', 'speakers', ...ids])
   body.order.forEach((id, i) => { if (!known.has(id)) issues.push({ path: `order.${i}`, message: `no change has the id "${id}"` }) })

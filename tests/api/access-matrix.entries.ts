@@ -91,6 +91,7 @@ export const routeEntries: Record<string, Scenario[]> = {
   'GET /api/rooms': [sc(at(() => '/api/rooms'), E(401, 200, 200, 403, 403))],
   'POST /api/rooms': [sc(at(() => '/api/rooms', { body: room }), E(401, 201, 201, 403, 403))],
   'POST /api/rooms/preview': [sc(at(() => '/api/rooms/preview', { body: room }), E(401, 200, 200, 200, 200))],
+  'POST /api/rooms/subwoofers': [sc(at(() => '/api/rooms/subwoofers', { body: () => ({ room: room(), counts: [1] }) }), E(401, 200, 200, 200, 200))],
   'GET /api/rooms/:id': [
     sc(at((w) => `/api/rooms/${w.roomId}`), E(401, 200, 404, 200, 200)),
     sc(at((w) => `/api/rooms/${w.draftRoomId}`, { note: 'room of a draft only' }), E(401, 200, 404, 404, 404)),
