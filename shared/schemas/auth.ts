@@ -23,11 +23,6 @@ export const registerSchema = z.object({
 })
 export type RegisterInput = z.infer<typeof registerSchema>
 
-export const createUserSchema = registerSchema.extend({
-  role: z.enum(['advisor', 'supervisor']),
-})
-export type CreateUserInput = z.infer<typeof createUserSchema>
-
 export const userSchema = z.object({
   id: z.string().uuid(),
   email: z.string(),

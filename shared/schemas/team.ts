@@ -56,6 +56,11 @@ export const auditActions = [
   'member.reactivated',
   'member.role_changed',
   'targets.changed',
+  'snippet.team_created',
+  'snippet.team_changed',
+  'snippet.team_deleted',
+  'password.changed',
+  'password.reset',
 ] as const
 export type AuditAction = (typeof auditActions)[number]
 
@@ -67,6 +72,11 @@ export const auditActionLabels: Record<AuditAction, string> = {
   'member.reactivated': 'Account switched back on',
   'member.role_changed': 'Role changed',
   'targets.changed': 'Response targets changed',
+  'snippet.team_created': 'Team snippet added',
+  'snippet.team_changed': 'Team snippet edited',
+  'snippet.team_deleted': 'Team snippet removed',
+  'password.changed': 'Password changed',
+  'password.reset': 'Password reset by e-mail link',
 }
 
 const instant = z.string().datetime({ offset: true, message: 'an ISO date-time such as 2025-03-03T00:00:00Z' })

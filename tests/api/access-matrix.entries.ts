@@ -26,8 +26,10 @@ export interface World {
   photoId: string
   /** a frequency-response text on the submitted case */
   measurementId: string
-  /** a reply snippet of the team */
+  /** a reply snippet of the team (made by the advisor) */
   snippetId: string
+  /** the advisor's personal snippet */
+  personalSnippetId: string
   /** a saved filter of the advisor */
   filterId: string
   /** the owner's credentials (for login scenarios) */
@@ -79,7 +81,6 @@ export const routeEntries: Record<string, Scenario[]> = {
   'PATCH /api/auth/preferences': [sc(at(() => '/api/auth/preferences', { body: () => ({ units: 'metric' }) }), E(401, 200, 200, 200, 200))],
 
   'GET /api/users': [sc(at(() => '/api/users'), E(401, 403, 403, 200, 200))],
-  'POST /api/users': [sc(at(() => '/api/users', { body: () => ({ email: `staff-${tag()}@example.test`, password: 'a-long-enough-password', name: 'New Advisor', role: 'advisor' }) }), E(401, 403, 403, 403, 201))],
 
   'GET /api/rooms': [sc(at(() => '/api/rooms'), E(401, 200, 200, 403, 403))],
   'POST /api/rooms': [sc(at(() => '/api/rooms', { body: room }), E(401, 201, 201, 403, 403))],
@@ -142,9 +143,20 @@ export const routeEntries: Record<string, Scenario[]> = {
     sc(at((w) => `/api/snippets/for-case/${w.caseId}`), E(401, 403, 403, 200, 200)),
     sc(at((w) => `/api/snippets/for-case/${w.draftId}`, { note: 'a draft' }), E(401, 403, 403, 404, 404)),
   ],
-  'POST /api/snippets': [sc(at(() => '/api/snippets', { body: () => ({ title: `Matrix snippet ${tag()}`, body: 'Your first axial mode is {{room.firstAxialHz}}.' }) }), E(401, 403, 403, 201, 201))],
-  'PUT /api/snippets/:id': [sc(at((w) => `/api/snippets/${w.snippetId}`, { body: () => ({ title: `Matrix snippet ${tag()}`, body: 'Edited body' }) }), E(401, 403, 403, 200, 200))],
-  'DELETE /api/snippets/:id': [sc(at((w) => `/api/snippets/${w.snippetId}`, { fresh: 'world' }), E(401, 403, 403, 204, 204))],
+  'POST /api/snippets': [
+    sc(at(() => '/api/snippets', { body: () => ({ title: `Matrix snippet ${tag()}`, body: 'Your first axial mode is {{room.firstAxialHz}}.' }) }), E(401, 403, 403, 201, 201)),
+    sc(at(() => '/api/snippets', { note: 'a team snippet', body: () => ({ title: `Matrix team snippet ${tag()}`, body: 'Shared words', scope: 'team' }) }), E(401, 403, 403, 201, 201)),
+  ],
+  'PUT /api/snippets/:id': [
+    sc(at((w) => `/api/snippets/${w.snippetId}`, { note: "the team's snippet (audited)", body: () => ({ title: `Matrix snippet ${tag()}`, body: 'Edited body' }) }), E(401, 403, 403, 200, 200)),
+    sc(at((w) => `/api/snippets/${w.personalSnippetId}`, { note: "the advisor's own snippet", body: () => ({ title: `Matrix own snippet ${tag()}`, body: 'Edited body' }) }), E(401, 403, 403, 200, 404)),
+    sc(at(() => `/api/snippets/${randomUUID()}`, { note: 'an unknown snippet', body: () => ({ title: `Matrix snippet ${tag()}`, body: 'Edited body' }) }), E(401, 403, 403, 404, 404)),
+  ],
+  'DELETE /api/snippets/:id': [
+    sc(at((w) => `/api/snippets/${w.snippetId}`, { note: "the team's snippet (audited)", fresh: 'world' }), E(401, 403, 403, 204, 204)),
+    sc(at((w) => `/api/snippets/${w.personalSnippetId}`, { note: "the advisor's own snippet", fresh: 'world' }), E(401, 403, 403, 204, 404)),
+    sc(at(() => `/api/snippets/${randomUUID()}`, { note: 'an unknown snippet' }), E(401, 403, 403, 404, 404)),
+  ],
 
   'GET /api/saved-filters': [sc(at(() => '/api/saved-filters'), E(401, 403, 403, 200, 200))],
   'POST /api/saved-filters': [sc(at(() => '/api/saved-filters', { body: () => ({ name: `Mine ${tag()}`, query: { scope: 'mine' } }) }), E(401, 403, 403, 201, 201))],

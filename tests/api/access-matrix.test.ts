@@ -57,12 +57,13 @@ async function makeWorld(): Promise<World> {
   const d = (await post(o, '/api/cases', { roomId: dr.id, title: 'World draft' }, 201)).body
   const photo = (await upload(o, `/api/cases/${c.id}/files`, 'photo').expect(201)).body
   const measurement = (await upload(o, `/api/cases/${c.id}/files`, 'measurement').expect(201)).body
-  const snippet = (await post(callers.advisor, '/api/snippets', { title: `World snippet ${c.id.slice(0, 8)}`, body: 'Hello {{listener.name}}' }, 201)).body
+  const snippet = (await post(callers.advisor, '/api/snippets', { title: `World snippet ${c.id.slice(0, 8)}`, body: 'Hello {{listener.name}}', scope: 'team' }, 201)).body
+  const personal = (await post(callers.advisor, '/api/snippets', { title: `World own snippet ${c.id.slice(0, 8)}`, body: 'My own words, {{listener.name}}' }, 201)).body
   const filter = (await post(callers.advisor, '/api/saved-filters', { name: `World ${c.id.slice(0, 8)}`, query: { scope: 'unassigned' } }, 201)).body
   const [{ reply_token }] = await db().query<{ reply_token: string }>('SELECT reply_token FROM cases WHERE id = $1', { bind: [c.id], type: QueryTypes.SELECT })
   return {
     roomId: r.id, draftRoomId: dr.id, caseId: c.id, draftId: d.id, photoId: photo.id, measurementId: measurement.id,
-    snippetId: snippet.id, filterId: filter.id, owner: { email: users.owner.email, password: users.owner.password }, replyToken: reply_token,
+    snippetId: snippet.id, personalSnippetId: personal.id, filterId: filter.id, owner: { email: users.owner.email, password: users.owner.password }, replyToken: reply_token,
   }
 }
 

@@ -118,7 +118,7 @@ describe('the desk confirms each action where the eye is', () => {
     await page.getByTestId('snippet-save').click()
     await page.getByTestId('snippet-title').locator('input').fill('Looking at it today')
     await page.getByTestId('snippet-title-save').click()
-    await expect.poll(() => page.getByTestId('snippet-kept').textContent()).toMatch(/Kept as the snippet "Looking at it today"/)
+    await expect.poll(() => page.getByTestId('snippet-kept').textContent()).toMatch(/Kept as your snippet "Looking at it today"/)
 
     await page.getByTestId('handover-button').click()
     await page.getByTestId('handover-target').click()
