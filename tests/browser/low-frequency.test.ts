@@ -105,8 +105,8 @@ describe('measured bass peaks explained', () => {
     await page.getByTestId('plan-save').click()
     await page.getByTestId('plan-saved-note').waitFor({ timeout: 15_000 })
     const saved = (await a.agent.get(`/api/cases/${caseId}/plans/1`).expect(200)).body
-    expect(saved.body.subwoofers.positions).toHaveLength(4)
-    expect(saved.predictions.subwoofers.after.seatToSeatDb).toBeLessThan(saved.predictions.subwoofers.before.seatToSeatDb)
+    expect(saved.body.subwooferLayout.positions).toHaveLength(4)
+    expect(saved.predictions.subwooferLayout.after.seatToSeatDb).toBeLessThan(saved.predictions.subwooferLayout.before.seatToSeatDb)
     await context.close()
   }, 150_000)
 })
