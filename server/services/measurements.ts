@@ -9,6 +9,7 @@ import { findCase } from '../data/cases'
 import { findRoom } from '../data/rooms'
 import type { DiagnosisContext } from '../analysis/service'
 import { publishCase } from './live'
+import { fileIsTeamOnly } from '../data/visibility'
 
 export const ANALYSE_MEASUREMENT = 'analyse-measurement'
 
@@ -56,8 +57,10 @@ async function after(fileId: string, status: string) {
   const f = await findFile(fileId)
   if (!f) return
   const seq = await insertEvent({ caseId: f.case_id, actorId: null, kind: 'analysis', data: { fileId, status, name: f.original_name, reason: f.analysis_error } })
-  publishCase(f.case_id, { type: 'case.analysis', caseId: f.case_id, fileId, status })
-  publishCase(f.case_id, { type: 'case.event', caseId: f.case_id, seq, kind: 'analysis' })
+  // An analysis of a file the listener may not see is news for the team only (server/data/visibility.ts).
+  const internal = await fileIsTeamOnly(fileId)
+  publishCase(f.case_id, { type: 'case.analysis', caseId: f.case_id, fileId, status }, { internal })
+  publishCase(f.case_id, { type: 'case.event', caseId: f.case_id, seq, kind: 'analysis', ...(internal ? { internal } : {}) }, { internal })
 }
 
 export async function runAnalysisJob(job: { data: { fileId: string } }) {
