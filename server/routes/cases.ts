@@ -3,7 +3,7 @@ import { requireRole, requireSignedIn, currentUser } from '../middleware/guards'
 import { validate } from '../middleware/validate'
 import { createCaseSchema, messageSchema, updateCaseSchema } from '../../shared/schemas/case'
 import { createCase, listMyCases, updateCase } from '../services/cases'
-import { readableCase, isStaff } from '../services/access'
+import { readableCase } from '../services/access'
 import { latestTriage, triageHistory } from '../services/triage'
 import { getThread, postMessage } from '../services/messages'
 import { listEvents } from '../data/events'
@@ -50,7 +50,7 @@ export function casesRouter(): Router {
   router.get('/:id/events', requireSignedIn, validate(afterQuery, 'query'), async (req, res) => {
     const user = currentUser(req)
     await readableCase(user, String(req.params.id))
-    res.json({ events: await listEvents(String(req.params.id), { afterId: res.locals.query.after, includeInternal: isStaff(user) }) })
+    res.json({ events: await listEvents(String(req.params.id), { afterId: res.locals.query.after, viewer: user }) })
   })
   router.get('/:id/messages', requireSignedIn, async (req, res) => res.json({ messages: await getThread(currentUser(req), String(req.params.id)) }))
   router.post('/:id/messages', requireSignedIn, validate(messageSchema), async (req, res) =>

@@ -30,9 +30,9 @@ async function predictedFor(caseId: string): Promise<PredictedReflection[] | und
 async function after(fileId: string, status: string) {
   const f = await findFile(fileId)
   if (!f) return
-  const seq = await insertEvent({ caseId: f.case_id, actorId: null, kind: 'analysis', data: { fileId, status, name: f.original_name, reason: f.analysis_error } })
-  publishCase(f.case_id, { type: 'case.analysis', caseId: f.case_id, fileId, status })
-  publishCase(f.case_id, { type: 'case.event', caseId: f.case_id, seq, kind: 'analysis' })
+  const seq = await insertEvent({ caseId: f.caseId, actorId: null, kind: 'analysis', data: { fileId, status, name: f.originalName, reason: f.analysisError } })
+  publishCase(f.caseId, { type: 'case.analysis', caseId: f.caseId, fileId, status })
+  publishCase(f.caseId, { type: 'case.event', caseId: f.caseId, seq, kind: 'analysis' })
 }
 
 export async function runAnalysisJob(job: { data: { fileId: string } }) {
@@ -41,7 +41,7 @@ export async function runAnalysisJob(job: { data: { fileId: string } }) {
       const f = await findFile(fileId)
       if (!f) throw new Error(`file ${fileId} no longer exists`)
       await setAnalysis(fileId, 'running', null, null)
-      return { bytes: await storage().getBuffer(f.storage_key), fileName: f.original_name, predicted: await predictedFor(f.case_id) }
+      return { bytes: await storage().getBuffer(f.storageKey), fileName: f.originalName, predicted: await predictedFor(f.caseId) }
     },
     saveResult: async (fileId, result) => {
       await setAnalysis(fileId, 'done', result, null)

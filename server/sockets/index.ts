@@ -22,7 +22,7 @@ export async function joinCase(socket: Socket, user: User, caseId: string, after
   await socket.join(`case:${caseId}`)
   if (isStaff(user)) await socket.join(`case:${caseId}:staff`)
   // Catching up after a reconnect comes from the database, never from memory.
-  const missed = afterSeq !== undefined ? await listEvents(caseId, { afterId: afterSeq, includeInternal: isStaff(user) }) : []
+  const missed = afterSeq !== undefined ? await listEvents(caseId, { afterId: afterSeq, viewer: user }) : []
   socket.to(`case:${caseId}`).emit('presence', { caseId, userId: user.id, name: user.name, role: user.role, state: 'viewing' })
   return missed
 }
