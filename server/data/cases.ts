@@ -10,7 +10,7 @@ interface CaseRow {
   listener_id: string; listener_name: string; assignee_id: string | null; assignee_name: string | null
   room_id: string; room_name: string; room_revision: number; length: number; width: number; height: number
   flags: { id: string; severity: string }[] | null
-  created_at: Date; submitted_at: Date | null; waiting_since: Date | null; last_activity_at: Date; reply_token: string
+  created_at: Date; submitted_at: Date | null; waiting_since: Date | null; last_activity_at: Date
 }
 
 const iso = (d: Date | null) => (d ? new Date(d).toISOString() : null)
@@ -56,7 +56,7 @@ export const caseSelect = `
          c.assignee_id, a.name AS assignee_name, c.room_id, r.name AS room_name, c.room_revision,
          (rr.body->>'length')::float AS length, (rr.body->>'width')::float AS width, (rr.body->>'height')::float AS height,
          c.flags,
-         c.created_at, c.submitted_at, c.waiting_since, c.last_activity_at, c.reply_token
+         c.created_at, c.submitted_at, c.waiting_since, c.last_activity_at
     FROM cases c
     JOIN users l ON l.id = c.listener_id
     LEFT JOIN users a ON a.id = c.assignee_id
@@ -71,9 +71,10 @@ export async function insertCase(input: { listenerId: string; roomId: string; ro
   return c.id
 }
 
-export async function findCase(id: string, t?: Transaction): Promise<(CaseDetail & { replyToken: string }) | null> {
+/** The case as the API shows it; the reply-by-e-mail token is a secret of the mail path (server/mail/outbox.ts) and never part of it. */
+export async function findCase(id: string, t?: Transaction): Promise<CaseDetail | null> {
   const c = await models().Case.scope('withRoom').findByPk(id, { transaction: t })
-  return c ? { ...caseToDetail(c), replyToken: c.replyToken } : null
+  return c ? caseToDetail(c) : null
 }
 
 export async function findCaseIdByReplyToken(token: string): Promise<{ id: string; listenerId: string } | null> {

@@ -1,5 +1,6 @@
 import { Op, type Transaction } from 'sequelize'
-import { models, type Viewer } from '../db/models'
+import { models } from '../db/models'
+import type { Audience } from './visibility'
 import type { CaseEvent, CaseStatus } from '../../shared/schemas/case'
 
 export async function insertEvent(
@@ -13,10 +14,10 @@ export async function insertEvent(
   return Number(row.id)
 }
 
-/** The case's history as `viewer` may see it (scope `visibleTo`), oldest first; `afterId` for catching up after a reconnect. */
-export async function listEvents(caseId: string, opts: { afterId?: number; viewer: Viewer }): Promise<(CaseEvent & { seq: number })[]> {
+/** The case's history as `audience` may see it (scope `visibleTo`, the rule of ./visibility.ts), oldest first; `afterId` for catching up after a reconnect. */
+export async function listEvents(caseId: string, opts: { afterId?: number; audience: Audience }): Promise<(CaseEvent & { seq: number })[]> {
   const rows = await models()
-    .CaseEvent.scope(['withActor', { method: ['visibleTo', opts.viewer] }])
+    .CaseEvent.scope(['withActor', { method: ['visibleTo', opts.audience] }])
     .findAll({ where: { caseId, id: { [Op.gt]: opts.afterId ?? 0 } }, order: [['id', 'ASC']] })
   return rows.map((r) => ({
     id: String(r.id), seq: Number(r.id), kind: r.kind,

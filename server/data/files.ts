@@ -1,5 +1,6 @@
 import type { Transaction } from 'sequelize'
-import { models, type FileModel, type Viewer } from '../db/models'
+import { models, type FileModel } from '../db/models'
+import type { Audience } from './visibility'
 import type { AnalysisStatus } from '../db/models/file'
 import type { CaseFile, FileKind } from '../../shared/schemas/case'
 
@@ -23,15 +24,14 @@ export async function insertFile(f: { caseId: string; uploaderId: string; kind: 
   return models().File.create({ ...rest, originalName: name }, { transaction: t })
 }
 
-/** A file by id; with `viewer`, only when that person may see it (scope `visibleTo`: files on internal notes only for the team). */
-export async function findFile(id: string, viewer?: Viewer): Promise<FileModel | null> {
-  const File = models().File
-  return (viewer ? File.scope({ method: ['visibleTo', viewer] }) : File).findOne({ where: { id } })
+/** A file by id; with `audience`, only when that audience may see it (scope `visibleTo`, the rule of ./visibility.ts). */
+export async function findFile(id: string, audience: Audience = 'team'): Promise<FileModel | null> {
+  return models().File.scope({ method: ['visibleTo', audience] }).findOne({ where: { id } })
 }
 
-/** The case's files as `viewer` may see them, oldest first. */
-export async function listFiles(caseId: string, viewer: Viewer): Promise<FileModel[]> {
-  return models().File.scope({ method: ['visibleTo', viewer] }).findAll({ where: { caseId }, order: [['createdAt', 'ASC'], ['id', 'ASC']] })
+/** The case's files as `audience` may see them, oldest first. */
+export async function listFiles(caseId: string, audience: Audience): Promise<FileModel[]> {
+  return models().File.scope({ method: ['visibleTo', audience] }).findAll({ where: { caseId }, order: [['createdAt', 'ASC'], ['id', 'ASC']] })
 }
 
 /** How many measurements and photos the case holds (they weigh in its triage score). */

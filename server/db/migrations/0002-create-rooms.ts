@@ -10,7 +10,7 @@ export async function up({ context: q }: { context: QueryInterface }): Promise<v
     created_at: { type: DataTypes.DATE, allowNull: false, defaultValue: now },
     updated_at: { type: DataTypes.DATE, allowNull: false, defaultValue: now },
   })
-  await q.addIndex('rooms', ['owner_id', { name: 'updated_at', order: 'DESC' }], { name: 'rooms_owner' })
+  await q.addIndex('rooms', { fields: ['owner_id', { name: 'updated_at', order: 'DESC' as const }], name: 'rooms_owner' })
   await q.createTable('room_revisions', {
     room_id: { type: DataTypes.UUID, primaryKey: true, allowNull: false, references: { model: 'rooms', key: 'id' }, onDelete: 'CASCADE' },
     revision: { type: DataTypes.INTEGER, primaryKey: true, allowNull: false },

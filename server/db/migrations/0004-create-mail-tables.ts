@@ -25,9 +25,9 @@ export async function up({ context: q }: { context: QueryInterface }): Promise<v
     updated_at: { type: DataTypes.DATE, allowNull: false, defaultValue: now },
   })
   await q.addConstraint('email_outbox', { type: 'check', name: 'email_outbox_status_check', fields: ['status'], where: { status: ['queued', 'sent', 'failed'] } })
-  await q.addIndex('email_outbox', ['next_attempt_at'], { name: 'email_outbox_queued', where: { status: 'queued' } })
-  await q.addIndex('email_outbox', ['case_id', 'created_at'], { name: 'email_outbox_case', where: { case_id: { [Op.ne]: null } } })
-  await q.addIndex('email_outbox', ['to_user_id', 'created_at'], { name: 'email_outbox_user', where: { to_user_id: { [Op.ne]: null } } })
+  await q.addIndex('email_outbox', { fields: ['next_attempt_at'], name: 'email_outbox_queued', where: { status: 'queued' } })
+  await q.addIndex('email_outbox', { fields: ['case_id', 'created_at'], name: 'email_outbox_case', where: { case_id: { [Op.ne]: null } } })
+  await q.addIndex('email_outbox', { fields: ['to_user_id', 'created_at'], name: 'email_outbox_user', where: { to_user_id: { [Op.ne]: null } } })
 
   await q.createTable('dev_mailbox', {
     id: { type: DataTypes.BIGINT, primaryKey: true, autoIncrement: true },
@@ -41,8 +41,8 @@ export async function up({ context: q }: { context: QueryInterface }): Promise<v
     raw_size: { type: DataTypes.INTEGER, allowNull: false },
     received_at: { type: DataTypes.DATE, allowNull: false, defaultValue: now },
   })
-  await q.addIndex('dev_mailbox', [{ name: 'received_at', order: 'DESC' }], { name: 'dev_mailbox_received' })
-  await q.addIndex('dev_mailbox', ['message_id'], { name: 'dev_mailbox_message_id' })
+  await q.addIndex('dev_mailbox', { fields: [{ name: 'received_at', order: 'DESC' as const }], name: 'dev_mailbox_received' })
+  await q.addIndex('dev_mailbox', { fields: ['message_id'], name: 'dev_mailbox_message_id' })
 
   await q.createTable('inbound_email_log', {
     id: { type: DataTypes.BIGINT, primaryKey: true, autoIncrement: true },
@@ -57,7 +57,7 @@ export async function up({ context: q }: { context: QueryInterface }): Promise<v
   })
   await q.addConstraint('inbound_email_log', { type: 'check', name: 'inbound_email_log_via_check', fields: ['via'], where: { via: ['smtp', 'webhook'] } })
   await q.addConstraint('inbound_email_log', { type: 'check', name: 'inbound_email_log_status_check', fields: ['status'], where: { status: ['accepted', 'rejected'] } })
-  await q.addIndex('inbound_email_log', [{ name: 'created_at', order: 'DESC' }], { name: 'inbound_email_log_time' })
+  await q.addIndex('inbound_email_log', { fields: [{ name: 'created_at', order: 'DESC' as const }], name: 'inbound_email_log_time' })
 }
 
 export async function down({ context: q }: { context: QueryInterface }): Promise<void> {

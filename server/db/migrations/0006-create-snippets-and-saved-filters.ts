@@ -11,7 +11,7 @@ export async function up({ context: q }: { context: QueryInterface }): Promise<v
     created_at: { type: DataTypes.DATE, allowNull: false, defaultValue: now },
     updated_at: { type: DataTypes.DATE, allowNull: false, defaultValue: now },
   })
-  await q.addIndex('reply_snippets', [q.sequelize.fn('lower', q.sequelize.col('title'))], { name: 'reply_snippets_title', unique: true })
+  await q.addIndex('reply_snippets', { fields: [q.sequelize.fn('lower', q.sequelize.col('title'))], name: 'reply_snippets_title', unique: true })
   await q.createTable('saved_filters', {
     id: { type: DataTypes.UUID, primaryKey: true, allowNull: false, defaultValue: uuid },
     user_id: { type: DataTypes.UUID, allowNull: false, references: { model: 'users', key: 'id' }, onDelete: 'CASCADE' },
@@ -19,7 +19,7 @@ export async function up({ context: q }: { context: QueryInterface }): Promise<v
     query: { type: DataTypes.JSONB, allowNull: false },
     created_at: { type: DataTypes.DATE, allowNull: false, defaultValue: now },
   })
-  await q.addIndex('saved_filters', ['user_id', q.sequelize.fn('lower', q.sequelize.col('name'))], { name: 'saved_filters_user_name', unique: true })
+  await q.addIndex('saved_filters', { fields: ['user_id', q.sequelize.fn('lower', q.sequelize.col('name'))], name: 'saved_filters_user_name', unique: true })
 }
 
 export async function down({ context: q }: { context: QueryInterface }): Promise<void> {

@@ -22,7 +22,7 @@ export async function up({ context: q }: { context: QueryInterface }): Promise<v
     type: 'check', name: 'team_invitations_role_check', fields: ['role'],
     where: { role: ['advisor', 'supervisor'] },
   })
-  await q.addIndex('team_invitations', [q.sequelize.fn('lower', q.sequelize.col('email')), { name: 'created_at', order: 'DESC' }], { name: 'team_invitations_email' })
+  await q.addIndex('team_invitations', { fields: [q.sequelize.fn('lower', q.sequelize.col('email')), { name: 'created_at', order: 'DESC' as const }], name: 'team_invitations_email' })
 
   await q.createTable('audit_log', {
     id: { type: DataTypes.BIGINT, primaryKey: true, autoIncrement: true },
@@ -34,9 +34,9 @@ export async function up({ context: q }: { context: QueryInterface }): Promise<v
     details: { type: DataTypes.JSONB, allowNull: false, defaultValue: q.sequelize.literal("'{}'") },
     created_at: { type: DataTypes.DATE, allowNull: false, defaultValue: now },
   })
-  await q.addIndex('audit_log', [{ name: 'created_at', order: 'DESC' }, { name: 'id', order: 'DESC' }], { name: 'audit_log_time' })
-  await q.addIndex('audit_log', ['actor_id', { name: 'created_at', order: 'DESC' }], { name: 'audit_log_actor' })
-  await q.addIndex('audit_log', ['action', { name: 'created_at', order: 'DESC' }], { name: 'audit_log_action' })
+  await q.addIndex('audit_log', { fields: [{ name: 'created_at', order: 'DESC' as const }, { name: 'id', order: 'DESC' as const }], name: 'audit_log_time' })
+  await q.addIndex('audit_log', { fields: ['actor_id', { name: 'created_at', order: 'DESC' as const }], name: 'audit_log_actor' })
+  await q.addIndex('audit_log', { fields: ['action', { name: 'created_at', order: 'DESC' as const }], name: 'audit_log_action' })
 }
 
 export async function down({ context: q }: { context: QueryInterface }): Promise<void> {

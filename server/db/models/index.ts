@@ -3,7 +3,7 @@
  * and the visibility scopes declared once here. Call `models()`; it (re)binds the models when the
  * Sequelize instance changed (tests and the bench close and reopen it).
  */
-import { Op, col, where, type Sequelize, type WhereOptions } from 'sequelize'
+import { Op, col, literal, where, type Sequelize } from 'sequelize'
 import { db } from '../sequelize'
 import { UserModel, initUser } from './user'
 import { RoomModel, RoomRevisionModel, initRooms } from './room'
@@ -14,14 +14,13 @@ import { TreatmentPlanModel, initPlans } from './plan'
 import { EmailOutboxModel, DevMailboxModel, InboundEmailLogModel, initMail } from './mail'
 import { ReplySnippetModel, SavedFilterModel, DeskSettingsModel, initDesk } from './desk'
 import { TeamInvitationModel, AuditLogModel, SessionModel, initTeam } from './team'
-import { seesInternalNotes, type Viewer } from './visibility'
+import { sharedWithListener, type Audience } from '../../data/visibility'
 
 export {
   UserModel, RoomModel, RoomRevisionModel, CaseModel, CaseEventModel, CaseRatingModel, TriageSnapshotModel, MessageModel, FileModel,
   TreatmentPlanModel, EmailOutboxModel, DevMailboxModel, InboundEmailLogModel, ReplySnippetModel, SavedFilterModel, DeskSettingsModel,
   TeamInvitationModel, AuditLogModel, SessionModel,
 }
-export { seesInternalNotes, type Viewer } from './visibility'
 
 // Built on first use: user.ts imports this module back (for `userModel()`), so the classes may not exist yet at load time.
 const build = () => ({
@@ -142,29 +141,13 @@ function addScopes() {
       },
     ],
   })
-  /** The cases a person may read: their own, and for the team every case past its draft (readableCase's rule). */
-  Case.addScope('readableBy', (viewer: Viewer) => ({
-    where: seesInternalNotes(viewer)
-      ? { [Op.or]: [{ listenerId: viewer.id }, { status: { [Op.ne]: 'draft' } }] }
-      : { listenerId: viewer.id },
-  }))
-
-  // --- internal notes: one rule (seesInternalNotes) turned into one scope per model that can carry them
-  /** Messages the viewer may see: internal notes only for the team. */
-  Message.addScope('visibleTo', (viewer: Viewer) => (seesInternalNotes(viewer) ? {} : { where: { internal: false } }))
-  /** Files the viewer may see: a file attached to an internal note is as internal as the note. */
-  File.addScope('visibleTo', (viewer: Viewer) =>
-    seesInternalNotes(viewer)
-      ? {}
-      : {
-          include: [{ model: Message, as: 'message', attributes: [], required: false }],
-          where: { [Op.or]: [{ messageId: null }, { '$message.internal$': false }] } as WhereOptions,
-        },
-  )
-  /** History entries the viewer may see: those recording an internal note (data.internal) only for the team. */
-  CaseEvent.addScope('visibleTo', (viewer: Viewer) =>
-    seesInternalNotes(viewer) ? {} : { where: { data: { internal: { [Op.not]: true } } } as WhereOptions },
-  )
+  // --- what a case's listener may see: THE rule of server/data/visibility.ts (sharedWithListener), one scope per
+  // model over the model's own alias, so the thread, file list, download, history and socket catch-up share it.
+  const scopeFor = (kind: keyof typeof sharedWithListener, alias: string) => (audience: Audience) =>
+    audience === 'team' ? {} : { where: literal(sharedWithListener[kind](`"${alias}"`)) }
+  Message.addScope('visibleTo', scopeFor('message', 'Message'))
+  File.addScope('visibleTo', scopeFor('file', 'File'))
+  CaseEvent.addScope('visibleTo', scopeFor('event', 'CaseEvent'))
   /** A message as the thread shows it: author and the ids of its attached files. */
   Message.addScope('thread', {
     include: [
