@@ -4,6 +4,9 @@ import { z } from 'zod'
  * Every setting Roomwright reads from the environment, each with a default or marked required,
  * validated once at start-up: a bad value stops the process with a message naming the variable.
  */
+/** The development default of the inbound webhook's secret: public (it is in this file), so never accepted in production. */
+export const DEV_INBOUND_SECRET = 'roomwright-development-inbound-secret'
+
 const schema = z.object({
   NODE_ENV: z.enum(['development', 'production', 'test']).default('development'),
   PORT: z.coerce.number().int('PORT must be a whole number').min(0).max(65535, 'PORT must be at most 65535').default(3000),
@@ -29,7 +32,7 @@ const schema = z.object({
   MAIL_FROM: z.string().default('Roomwright <desk@roomwright.test>'),
   MAIL_REPLY_DOMAIN: z.string().default('reply.roomwright.test'),
   FAKE_SMTP: z.enum(['on', 'off']).default('off'),
-  INBOUND_EMAIL_SECRET: z.string().min(16).default('roomwright-development-inbound-secret'),
+  INBOUND_EMAIL_SECRET: z.string().min(16, 'INBOUND_EMAIL_SECRET must be at least 16 characters').default(DEV_INBOUND_SECRET),
   JOBS: z.enum(['on', 'off']).default('on'),
   LOGIN_RATE_LIMIT: z.coerce.number().int().positive().default(20),
   /** Longest one SQL statement may run, ms: requests fail fast instead of piling up. Benchmarks raise it for bulk loads. */
@@ -49,6 +52,9 @@ export function loadConfig(env: NodeJS.ProcessEnv = process.env): Config {
   const config = parsed.data
   if (config.NODE_ENV === 'production' && config.SESSION_SECRET === 'roomwright-development-session-secret') {
     throw new ConfigError('Roomwright cannot start: SESSION_SECRET must be set in production')
+  }
+  if (config.NODE_ENV === 'production' && (!env.INBOUND_EMAIL_SECRET?.trim() || config.INBOUND_EMAIL_SECRET === DEV_INBOUND_SECRET)) {
+    throw new ConfigError('Roomwright cannot start: INBOUND_EMAIL_SECRET must be set in production to a secret of your own (at least 16 characters), not missing and not the development default')
   }
   if (config.STORAGE_DRIVER === 's3' && (!config.S3_BUCKET || !config.S3_ENDPOINT)) {
     throw new ConfigError('Roomwright cannot start: STORAGE_DRIVER=s3 needs S3_ENDPOINT and S3_BUCKET')
