@@ -43,7 +43,7 @@ export function createApp(opts: { clientDir?: string | false } = {}): BuiltApp {
     }),
   )
 
-  const sessionPool = new pg.Pool({ connectionString: cfg.DATABASE_URL, max: 5, connectionTimeoutMillis: 3000 })
+  const sessionPool = new pg.Pool({ connectionString: cfg.DATABASE_URL, max: 8, connectionTimeoutMillis: 3000 })
   sessionPool.on('error', () => {})
   const sessionMiddleware = session({
     name: 'rw.sid',

@@ -1,8 +1,14 @@
 import session from 'express-session'
 import connectPgSimple from 'connect-pg-simple'
+import type pg from 'pg'
 import type { User } from '../../shared/schemas/auth'
 
 const PgStore = connectPgSimple(session)
+/** The session and its user in one statement (the session's user_id column is generated from its JSON). */
+const SESSION_GET = `SELECT s.sess, date_part('epoch', s.expire::timestamptz) * 1000 AS expire_ms, u.id, u.email, u.name, u.role, u.active
+  FROM "session" s LEFT JOIN users u ON u.id = s.user_id
+ WHERE s.sid = $1 AND s.expire >= to_timestamp($2)`
+
 type Callback<T = unknown> = (err: unknown, value?: T) => void
 
 /** A rolling session's expiry is written again only once it would move by this much (touching costs a write per request). */
@@ -38,24 +44,31 @@ export class SessionStore extends PgStore {
     this.known.set(sid, ms)
   }
 
+  private pool: pg.Pool
+
+  constructor(options: ConstructorParameters<typeof PgStore>[0] & { pool: pg.Pool }) {
+    super(options)
+    this.pool = options.pool
+  }
+
   override get(sid: string, fn: Callback<session.SessionData | null>): void {
-    // connect-pg-simple's own query helper (its pool, its error handling); not in its type declarations
-    const query = (this as unknown as { query: (sql: string, params: unknown[], cb: (err: unknown, row?: Row) => void) => void }).query.bind(this)
-    query(
-      `SELECT s.sess, date_part('epoch', s.expire::timestamptz) * 1000 AS expire_ms, u.id, u.email, u.name, u.role, u.active
-         FROM "session" s LEFT JOIN users u ON u.id = s.user_id
-        WHERE s.sid = $1 AND s.expire >= to_timestamp($2)`,
-      [sid, Math.ceil(Date.now() / 1000)],
-      (err: unknown, row?: Row) => {
-        if (err) return fn(err)
+    // a named prepared statement: planned once per connection, not on every request
+    this.pool.query<Row>({ name: 'rw_session_get', text: SESSION_GET, values: [sid, Math.ceil(Date.now() / 1000)] }).then(
+      ({ rows: [row] }) => {
         if (!row) return fn(null, null)
-        const sess = typeof row.sess === 'string' ? JSON.parse(row.sess) : row.sess
+        let sess: Row['sess']
+        try {
+          sess = typeof row.sess === 'string' ? JSON.parse(row.sess) : row.sess
+        } catch {
+          return this.destroy(sid, (e) => fn(e ?? null, null))
+        }
         this.remember(sid, Number(row.expire_ms))
         if (sess.passport && typeof sess.passport === 'object' && sess.passport.user) {
           usersOfSessions.set(sess.passport, row.id && row.active ? { id: row.id, email: row.email, name: row.name, role: row.role } : null)
         }
         fn(null, sess)
       },
+      (err: unknown) => fn(err),
     )
   }
 

@@ -10,7 +10,7 @@ interface CaseRow {
   listener_id: string; listener_name: string; assignee_id: string | null; assignee_name: string | null
   room_id: string; room_name: string; room_revision: number; length: number; width: number; height: number
   flags: { id: string; severity: string }[] | null
-  created_at: Date; submitted_at: Date | null; waiting_since: Date | null; last_activity_at: Date; reply_token: string
+  created_at: Date; submitted_at: Date | null; waiting_since: Date | null; last_activity_at: Date
 }
 
 const iso = (d: Date | null) => (d ? new Date(d).toISOString() : null)
@@ -32,13 +32,17 @@ export const toSummary = (r: CaseRow): CaseSummary => ({
 
 const toDetail = (r: CaseRow): CaseDetail => ({ ...toSummary(r), description: r.description, answers: r.answers, listenerId: r.listener_id })
 
-/** The columns every case listing shows; the flags come from the latest triage snapshot. */
+/**
+ * The columns every case listing shows; the flags come from the latest triage snapshot. The reply-by-e-mail
+ * token is a secret of the mail path (server/mail/outbox.ts reads it itself) and is never selected here,
+ * so no case shape can carry it to a browser.
+ */
 export const caseSelect = `
   SELECT c.id, c.title, c.description, c.answers, c.status, c.score, c.listener_id, l.name AS listener_name,
          c.assignee_id, a.name AS assignee_name, c.room_id, r.name AS room_name, c.room_revision,
          (rr.body->>'length')::float AS length, (rr.body->>'width')::float AS width, (rr.body->>'height')::float AS height,
          c.flags,
-         c.created_at, c.submitted_at, c.waiting_since, c.last_activity_at, c.reply_token
+         c.created_at, c.submitted_at, c.waiting_since, c.last_activity_at
     FROM cases c
     JOIN users l ON l.id = c.listener_id
     LEFT JOIN users a ON a.id = c.assignee_id
@@ -55,9 +59,9 @@ export async function insertCase(input: { listenerId: string; roomId: string; ro
   return row.id
 }
 
-export async function findCase(id: string, t?: Transaction): Promise<(CaseDetail & { replyToken: string }) | null> {
+export async function findCase(id: string, t?: Transaction): Promise<CaseDetail | null> {
   const rows = await q<CaseRow>(`${caseSelect} WHERE c.id = $1`, [id], t)
-  return rows[0] ? { ...toDetail(rows[0]), replyToken: rows[0].reply_token } : null
+  return rows[0] ? toDetail(rows[0]) : null
 }
 
 export async function findCaseIdByReplyToken(token: string): Promise<{ id: string; listenerId: string } | null> {

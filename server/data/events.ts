@@ -1,5 +1,6 @@
 import { QueryTypes, type Transaction } from 'sequelize'
 import { db } from '../db/sequelize'
+import { visibleTo, type Audience } from './visibility'
 import type { CaseEvent, CaseStatus } from '../../shared/schemas/case'
 
 export async function insertEvent(
@@ -13,14 +14,14 @@ export async function insertEvent(
   return Number(row.id)
 }
 
-/** The case's history, oldest first; `afterId` for catching up after a reconnect. */
-export async function listEvents(caseId: string, opts: { afterId?: number; includeInternal: boolean }): Promise<(CaseEvent & { seq: number })[]> {
+/** The case's history as `audience` may see it (./visibility.ts), oldest first; `afterId` for catching up after a reconnect. */
+export async function listEvents(caseId: string, opts: { afterId?: number; audience: Audience }): Promise<(CaseEvent & { seq: number })[]> {
   const rows = await db().query<{ id: string; kind: string; actor_id: string | null; actor_name: string | null; from_status: CaseStatus | null; to_status: CaseStatus | null; data: Record<string, unknown>; created_at: Date }>(
     `SELECT e.id, e.kind, e.actor_id, u.name AS actor_name, e.from_status, e.to_status, e.data, e.created_at
        FROM case_events e LEFT JOIN users u ON u.id = e.actor_id
-      WHERE e.case_id = $1 AND e.id > $2 AND ($3::boolean OR NOT coalesce((e.data->>'internal')::boolean, false))
+      WHERE e.case_id = $1 AND e.id > $2 AND ${visibleTo(opts.audience, 'event', 'e')}
       ORDER BY e.id`,
-    { bind: [caseId, opts.afterId ?? 0, opts.includeInternal], type: QueryTypes.SELECT },
+    { bind: [caseId, opts.afterId ?? 0], type: QueryTypes.SELECT },
   )
   return rows.map((r) => ({
     id: String(r.id), seq: Number(r.id), kind: r.kind,

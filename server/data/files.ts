@@ -1,5 +1,6 @@
 import { QueryTypes, type Transaction } from 'sequelize'
 import { db } from '../db/sequelize'
+import { visibleTo, type Audience } from './visibility'
 import type { CaseFile, FileKind } from '../../shared/schemas/case'
 
 export interface FileRow {
@@ -30,13 +31,15 @@ export async function insertFile(f: { caseId: string; uploaderId: string; kind: 
   return row
 }
 
-export async function findFile(id: string): Promise<FileRow | null> {
-  const rows = await db().query<FileRow>('SELECT * FROM files WHERE id = $1', { bind: [id], type: QueryTypes.SELECT })
+/** A file by id; with `audience`, only when that audience may see it (./visibility.ts). */
+export async function findFile(id: string, audience: Audience = 'team'): Promise<FileRow | null> {
+  const rows = await db().query<FileRow>(`SELECT f.* FROM files f WHERE f.id = $1 AND ${visibleTo(audience, 'file', 'f')}`, { bind: [id], type: QueryTypes.SELECT })
   return rows[0] ?? null
 }
 
-export async function listFiles(caseId: string): Promise<FileRow[]> {
-  return db().query<FileRow>('SELECT * FROM files WHERE case_id = $1 ORDER BY created_at, id', { bind: [caseId], type: QueryTypes.SELECT })
+/** The case's files as `audience` may see them (./visibility.ts). */
+export async function listFiles(caseId: string, audience: Audience): Promise<FileRow[]> {
+  return db().query<FileRow>(`SELECT f.* FROM files f WHERE f.case_id = $1 AND ${visibleTo(audience, 'file', 'f')} ORDER BY f.created_at, f.id`, { bind: [caseId], type: QueryTypes.SELECT })
 }
 
 export async function setAnalysis(id: string, status: 'running' | 'done' | 'failed', result: unknown, error: string | null): Promise<FileRow | null> {

@@ -1,12 +1,13 @@
-import { QueryTypes } from 'sequelize'
+import { createHash } from 'node:crypto'
 import { db } from '../db/sequelize'
 import type { QueueQuery } from '../../shared/schemas/queue'
 import type { CaseStatus, CaseSummary } from '../../shared/schemas/case'
 import { waitingOnTeam } from '../../shared/case-workflow'
 
 // Hand-written SQL, measured faster (bench/queue.ts, README figures): the priority merge below needs
-// expression-index scans with LIMIT per stream and one statement per round trip, which the ORM cannot say.
-// Everything goes through the Sequelize instance with bound parameters; rows are mapped to CaseSummary.
+// expression-index scans with LIMIT per stream, which the ORM cannot say, and named prepared statements
+// (planning cost more than running them). It goes through the Sequelize instance's own connection pool
+// with bound parameters; rows are mapped to CaseSummary.
 
 /** The statuses of open work: the queue's default views show only these (closed cases by a status filter). */
 export const openStatuses: CaseStatus[] = ['submitted', 'in_review', 'waiting_on_listener', 'plan_sent']
@@ -69,7 +70,23 @@ function filters(userId: string, query: QueueQuery): Sql {
   return { where: where.join(' AND '), bind, p }
 }
 
-const select = <T extends object>(sql: string, bind: unknown[]) => db().query<T>(sql, { bind, type: QueryTypes.SELECT })
+interface PgConnection { query(q: { name: string; text: string; values: unknown[] }): Promise<{ rows: unknown[] }> }
+interface Pool { getConnection(o: { type: string }): Promise<PgConnection>; releaseConnection(c: PgConnection): Promise<void> }
+
+/**
+ * A SELECT as a named prepared statement on a connection of Sequelize's pool: each connection plans a
+ * statement once (PostgreSQL switches to a generic plan when it is no worse) instead of on every request.
+ */
+async function select<T>(sql: string, bind: unknown[]): Promise<T[]> {
+  const pool = db().connectionManager as unknown as Pool
+  const name = `rw_queue_${createHash('sha1').update(sql).digest('hex').slice(0, 24)}`
+  const connection = await pool.getConnection({ type: 'SELECT' })
+  try {
+    return (await connection.query({ name, text: sql, values: bind })).rows as T[]
+  } finally {
+    await pool.releaseConnection(connection)
+  }
+}
 
 /**
  * One page of the team's queue. Default views: open work, what needs an answer first (submitted and
@@ -81,7 +98,8 @@ export async function queuePage(userId: string, query: QueueQuery): Promise<Queu
   const offset = (query.page - 1) * query.pageSize
   const sql = filters(userId, query)
   const cap = countCap(query)
-  const counted = select<{ n: number }>(`SELECT count(*)::int AS n FROM (SELECT 1 FROM cases c WHERE ${sql.where} LIMIT ${cap + 1}) x`, sql.bind)
+  const countBind = [...sql.bind, cap + 1]
+  const counted = select<{ n: number }>(`SELECT count(*)::int AS n FROM (SELECT 1 FROM cases c WHERE ${sql.where} LIMIT $${countBind.length}) x`, countBind)
   const page = query.sort === 'priority' && query.dir === 'desc' && !query.q
     ? await byPriority(sql, offset, query.pageSize)
     : await bySort(sql, query, offset)
@@ -124,7 +142,8 @@ const before = (x: { g: boolean; priority: number; id: string }, y: { g: boolean
  */
 export async function byPriority({ where, bind }: Sql, offset: number, size: number): Promise<{ id: string; priority: number }[]> {
   const want = offset + size
-  for (let m = Math.max(2 * want, 50); ; m *= 4) {
+  // m: deep enough that one read is usually provably exact (rows are cheap, a second round trip is not)
+  for (let m = Math.max(8 * want, 200); ; m *= 4) {
     const b = [...bind, m]
     const lim = `$${b.length}`
     const cols = (s: string, key: string) => `SELECT '${s}' AS s, c.id, ${NEEDS} AS g, ${prioritySql} AS priority, ${key} AS key FROM cases c`

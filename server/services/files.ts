@@ -10,7 +10,8 @@ import { discardUpload, finaliseUpload, makeThumbnail, type UploadedFile } from 
 import { enqueue } from '../jobs/queue'
 import type { CaseFile } from '../../shared/schemas/case'
 import type { User } from '../../shared/schemas/auth'
-import { isStaff, readableCase } from './access'
+import { audienceOf, isStaff, readableCase } from './access'
+import { fileIsTeamOnly } from '../data/visibility'
 import { publishCase, publishQueue } from './live'
 import { ANALYSE_MEASUREMENT } from './measurements'
 import { refreshScore } from './triage'
@@ -41,10 +42,12 @@ export async function addCaseFile(user: User, caseId: string, upload: UploadedFi
       }, t)
       const seq = await insertEvent({ caseId, actorId: user.id, kind: 'file', data: { fileId: row.id, name: row.original_name, fileKind: row.kind } }, t)
       if (upload.kind === 'measurement') await enqueue(ANALYSE_MEASUREMENT, { fileId: row.id }, { transaction: t })
+      // A file the team uploads stays with the team until it goes out with a reply (server/data/visibility.ts).
+      const internal = await fileIsTeamOnly(row.id, t)
       await db().query('UPDATE cases SET last_activity_at = now() WHERE id = $1', { bind: [caseId], transaction: t })
       await refreshScore(caseId, t)
       afterCommit(() => {
-        publishCase(caseId, { type: 'case.event', caseId, seq, kind: 'file' })
+        publishCase(caseId, { type: 'case.event', caseId, seq, kind: 'file', ...(internal ? { internal } : {}) }, { internal })
         publishQueue(caseId)
       })
       return row
@@ -59,15 +62,16 @@ export async function addCaseFile(user: User, caseId: string, upload: UploadedFi
 
 export async function caseFiles(user: User, caseId: string): Promise<CaseFile[]> {
   await readableCase(user, caseId)
-  return (await listFiles(caseId)).map((r) => toCaseFile(r))
+  return (await listFiles(caseId, audienceOf(user))).map((r) => toCaseFile(r))
 }
 
-/** A file for download: only for those who may read its case (others: 404). */
+/** A file for download: only for those who may read its case, and only when the file is shared with them (others: 404). */
 export async function readableFile(user: User, fileId: string): Promise<FileRow> {
-  if (!/^[0-9a-f-]{36}$/i.test(fileId)) throw notFound('That file')
+  if (!/^[0-9a-f]{8}-[0-9a-f]{4}-[0-9a-f]{4}-[0-9a-f]{4}-[0-9a-f]{12}$/i.test(fileId)) throw notFound('That file')
   const f = await findFile(fileId)
   if (!f) throw notFound('That file')
   await readableCase(user, f.case_id)
+  if (audienceOf(user) !== 'team' && !(await findFile(fileId, audienceOf(user)))) throw notFound('That file')
   return f
 }
 

@@ -32,6 +32,8 @@ export {
 } from './modes'
 export type { ModeAnalysis, ModeCoincidence, AxialGap, ThirdOctaveModeCount, RatioReference, ModalResponse, ModalResponseOptions, Rt60Spec } from './modes'
 export { subwooferCandidates, subwooferLayoutResponse } from './subwoofers'
+export { subwooferAdvice } from './subwoofer-advice'
+export type { SubwooferAdvice, SubwooferAdviceLayout } from './subwoofer-advice'
 export type { SubwooferLayoutResponse } from './subwoofers'
 export { searchPositions } from './position-search'
 export type { PositionSearch, PositionSearchOptions, SpreadAt } from './position-search'

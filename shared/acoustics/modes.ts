@@ -630,7 +630,7 @@ export function addSeries(sys: ModalSystem, aRe: Float64Array, aIm: Float64Array
  * This is the band level of a constant-percentage filter with ideal edges, divided by the bandwidth.
  * @see IEC 61260-1:2014 §3 (fractional-octave band edges); the average is the band power per Hz
  */
-export function smoothPower(sys: ModalSystem, power: ArrayLike<number>, out = new Float64Array(power.length)): Float64Array {
+export function smoothPower(sys: ModalSystem, power: ArrayLike<number>, out: Float64Array = new Float64Array(power.length)): Float64Array {
   const F = power.length
   const fr = sys.freqsHz
   const b = sys.opts.smoothingOctaves

@@ -36,7 +36,8 @@ export interface PositionSearch {
   }
   speakers: {
     best: { distanceFromFront: number; spreadDb: number }
-    current: { distanceFromFront: number; spreadDb: number }
+    /** distanceFromFront: the mean of the sources' distances; positions: each source today */
+    current: { distanceFromFront: number; spreadDb: number; positions: Point[] }
     scan: { distanceFromFront: number; spreadDb: number }[]
   }
   spreadBandHz: [number, number]
@@ -120,7 +121,8 @@ function linspace(a: number, b: number, n: number): number[] {
  * Scan seat positions along the room's centre line (optionally across it too) and speaker distances
  * from the front wall for the smallest low-frequency peak-to-null spread (1/6-octave smoothed modal
  * response, as `modalResponse`). The seat keeps its ear height; the speakers keep their y and height
- * and all move to the same distance from the front wall.
+ * and all move to the same distance from the front wall. `speakers` are the bass sources: in a room
+ * with subwoofers the triage passes the subwoofers, and the speaker scan then moves those.
  * @param speakers the bass sources, driven in phase, metres
  * @param seat the current seat, metres
  */
@@ -208,6 +210,7 @@ export function searchPositionsWithSystem(
   const currentSpeaker = {
     distanceFromFront: speakers.reduce((s, p) => s + p.x, 0) / speakers.length,
     spreadDb: currentSpread,
+    positions: speakers.map((p) => ({ x: p.x, y: p.y, z: p.z })),
   }
 
   return {

@@ -3,7 +3,7 @@
  * relative level) so that the bass is alike at every seat, by the engine's modal model.
  */
 import type { ModalResponseOptions, ModalSystem } from './modes'
-import { buildModalSystem, sourceWeights, spreadDbOfPower } from './modes'
+import { addSeries, buildModalSystem, farSeries, smoothPower, sourceWeights, spreadDbOfPower } from './modes'
 import type { Point, RoomBox } from './types'
 import { assertFinite, assertPointInRoom, assertPositive, assertRoom } from './validate'
 
@@ -85,10 +85,12 @@ export function subwooferCandidates(room: RoomBox, opts: { spacing?: number; hei
   }
   const nx = steps(room.length)
   const ny = steps(room.width)
-  for (let i = 0; i <= ny; i++) add(0, (room.width * i) / ny) // front wall
-  for (let i = 0; i <= ny; i++) add(room.length, (room.width * i) / ny) // back wall
-  for (let i = 0; i <= nx; i++) add((room.length * i) / nx, 0) // left wall
-  for (let i = 0; i <= nx; i++) add((room.length * i) / nx, room.width) // right wall
+  // the last step lands exactly on the far wall (len·n/n can round past it)
+  const at = (len: number, i: number, n: number) => (i === n ? len : (len * i) / n)
+  for (let i = 0; i <= ny; i++) add(0, at(room.width, i, ny)) // front wall
+  for (let i = 0; i <= ny; i++) add(room.length, at(room.width, i, ny)) // back wall
+  for (let i = 0; i <= nx; i++) add(at(room.length, i, nx), 0) // left wall
+  for (let i = 0; i <= nx; i++) add(at(room.length, i, nx), room.width) // right wall
   return out
 }
 
@@ -105,19 +107,32 @@ function transfers(sys: ModalSystem, candidates: readonly Point[], seats: readon
   const F = sys.freqsHz.length
   const M = sys.modeCount
   const seatW = seats.map((s) => sourceWeights(sys, [s]))
+  const total = M + sys.farCount
+  const w = new Float64Array(total)
+  const re = new Float64Array(F)
+  const im = new Float64Array(F)
+  // the engine's sum: the exactly summed modes, then the far modes through their series
   const t = candidates.map((c) => {
     const cw = sourceWeights(sys, [c])
     return seatW.map((sw) => {
-      const out = new Float64Array(2 * F)
+      for (let m = 0; m < total; m++) w[m] = cw[m] * sw[m]
+      re.fill(0)
+      im.fill(0)
       for (let m = 0; m < M; m++) {
-        const w = cw[m] * sw[m]
-        if (Math.abs(w) < 1e-12) continue
+        const wm = w[m]
+        if (Math.abs(wm) < 1e-12) continue
         const base = m * F
         for (let f = 0; f < F; f++) {
-          out[2 * f] += w * sys.hRe[base + f]
-          out[2 * f + 1] += w * sys.hIm[base + f]
+          re[f] += wm * sys.hRe[base + f]
+          im[f] += wm * sys.hIm[base + f]
         }
       }
+      if (sys.farCount) {
+        const { aRe, aIm } = farSeries(sys, w, 0, sys.farCount)
+        addSeries(sys, aRe, aIm, re, im)
+      }
+      const out = new Float64Array(2 * F)
+      for (let f = 0; f < F; f++) { out[2 * f] = re[f]; out[2 * f + 1] = im[f] }
       return out
     })
   })
@@ -148,7 +163,7 @@ function figures(tr: Transfers, sum: Float64Array[], sc: Scratch): { seatToSeatD
   let spread = 0
   for (let s = 0; s < S; s++) {
     const p = sc.power[s]
-    for (let f = 0; f < F; f++) sc.db[s * F + f] = 10 * Math.log10(Math.max(p[f], floor))
+    for (let f = 0; f < F; f++) sc.db[s * F + f] = DB_PER_NEPER_POWER * Math.log(Math.max(p[f], floor))
     spread += spreadDbOfPower(tr.sys, p, sc.prefix)
   }
   let std = 0
@@ -163,6 +178,44 @@ function figures(tr: Transfers, sum: Float64Array[], sc: Scratch): { seatToSeatD
     std /= F
   }
   return { seatToSeatDb: std, meanSpreadDb: spread / S }
+}
+
+const DB_PER_NEPER_POWER = 10 / Math.LN10
+
+/**
+ * The seat-to-seat figure alone, abandoned (Infinity) once its running sum shows it cannot come within
+ * `bound`: the search's inner loop, equal to `figures(...).seatToSeatDb` whenever it returns a number.
+ */
+function seatToSeatBounded(tr: Transfers, sum: Float64Array[], sc: Scratch, bound: number): number {
+  const { F, S } = tr
+  if (S < 2) return 0
+  let mean = 0
+  for (let s = 0; s < S; s++) {
+    const p = sc.power[s]
+    const x = sum[s]
+    for (let f = 0; f < F; f++) {
+      const v = x[2 * f] * x[2 * f] + x[2 * f + 1] * x[2 * f + 1]
+      p[f] = v
+      mean += v
+    }
+  }
+  mean /= S * F
+  const floor = mean * 10 ** (FLOOR_DB / 10)
+  const limit = bound * F
+  let std = 0
+  for (let f = 0; f < F; f++) {
+    let a = 0
+    let b = 0
+    for (let s = 0; s < S; s++) {
+      const v = DB_PER_NEPER_POWER * Math.log(Math.max(sc.power[s][f], floor))
+      a += v
+      b += v * v
+    }
+    const m = a / S
+    std += Math.sqrt(Math.max(0, b / S - m * m))
+    if (std > limit) return Infinity
+  }
+  return std / F
 }
 
 function sumOf(tr: Transfers, idx: readonly number[], gains: readonly number[]): Float64Array[] {
@@ -287,8 +340,11 @@ export function searchSubwoofers(room: RoomBox, seats: Point[], opts: SubwooferS
         for (let gi = 0; gi < trySets.length; gi++) {
           const g = trySets[gi]
           const sum = exhaustive ? sumOf(tr, idx, g) : partial[k]
+          const full = top.length < keep
+          const bound = full ? Infinity : top[top.length - 1].fig.seatToSeatDb + 2 * TIE_DB
+          if (seatToSeatBounded(tr, sum, sc, bound) === Infinity) continue
           const fig = figures(tr, sum, sc)
-          if (top.length < keep || better(fig, top[top.length - 1].fig)) {
+          if (full || better(fig, top[top.length - 1].fig)) {
             consider({ idx: [...idx], gains: exhaustive ? sets[gi] : new Array(k).fill(0), fig })
           }
         }
@@ -374,16 +430,13 @@ export function subwooferLayoutResponse(
   r.sc.power.forEach((p) => p.forEach((v) => { mean += v }))
   mean = mean / (F * seats.length) || Number.MIN_VALUE
   const floor = mean * 10 ** (FLOOR_DB / 10)
-  const half = Math.round((sys.opts.smoothingOctaves * sys.opts.pointsPerOctave) / 2)
   const seatsOut = r.sc.power.map((p) => {
     const levelDb: number[] = []
     const smoothedDb: number[] = []
+    const smooth = smoothPower(sys, p)
     for (let f = 0; f < F; f++) {
       levelDb.push(10 * Math.log10(Math.max(p[f], floor) / mean))
-      let s = 0
-      let k = 0
-      for (let j = Math.max(0, f - half); j <= Math.min(F - 1, f + half); j++) { s += p[j]; k++ }
-      smoothedDb.push(10 * Math.log10(Math.max(s / k, floor) / mean))
+      smoothedDb.push(10 * Math.log10(Math.max(smooth[f], floor) / mean))
     }
     return { levelDb, smoothedDb, spreadDb: spreadDbOfPower(sys, p, new Float64Array(F + 1)) }
   })

@@ -99,6 +99,8 @@ export interface SeatAnalysis {
   point: Point
   /** labels of the sources used for the low-frequency figures */
   bassSources: string[]
+  /** what those sources are: the subwoofers when the room has any, else the main speakers; the position search moves these */
+  bassSourceKind: 'speakers' | 'subwoofers'
   /** modes below 150 Hz with the seat's relative pressure on each (−1…1) */
   lowModes: (RoomMode & { pressure: number; position: 'null' | 'peak' | 'between' })[]
   modalResponse: ModalResponse
@@ -261,7 +263,7 @@ export function computeRoomAnalysis(desc: RoomDescription, opts: AnalysisOptions
     notches,
     reverberation,
     flags,
-    seat: { label: main.label, point: pt(main), bassSources: bass.map((b) => b.label), lowModes, modalResponse, positionSearch },
+    seat: { label: main.label, point: pt(main), bassSources: bass.map((b) => b.label), bassSourceKind: desc.subwoofers && desc.subwoofers.length ? 'subwoofers' : 'speakers', lowModes, modalResponse, positionSearch },
   }
 }
 

@@ -1,5 +1,5 @@
 import { z } from 'zod'
-import { emailSchema, passwordSchema } from './auth'
+import { emailSchema, passwordSchema, type Role } from './auth'
 
 export const staffRoles = ['advisor', 'supervisor'] as const
 export const staffRoleSchema = z.enum(staffRoles)
@@ -23,6 +23,25 @@ export const acceptInvitationSchema = z.object({
 export type AcceptInvitationInput = z.infer<typeof acceptInvitationSchema>
 
 export const roleChangeSchema = z.object({ role: staffRoleSchema })
+
+/** Any account as the people list shows it (listeners too). `openCases`: assigned ones for staff, their own for listeners. */
+export interface AccountSummary {
+  id: string
+  name: string
+  email: string
+  role: Role
+  active: boolean
+  createdAt: string
+  openCases: number
+}
+
+export const listenerQuerySchema = z.object({
+  search: z.string().trim().max(120).optional().transform((s) => s || undefined),
+  active: z.enum(['true', 'false']).optional().transform((v) => (v === undefined ? undefined : v === 'true')),
+  page: z.coerce.number().int().min(1).max(10_000).default(1),
+  pageSize: z.coerce.number().int().min(1).max(100).default(25),
+})
+export type ListenerQuery = z.output<typeof listenerQuerySchema>
 
 export interface TeamMember {
   id: string

@@ -37,6 +37,12 @@ export interface LowFrequencyDiagnosis {
   dimensionEstimate: { length: number; width: number; height: number; matchedAxialModes: number } | null
 }
 
+/** A diagnosis as stored with a measurement's analysis: which bass source the peaks were explained for. */
+export interface SourcedLowFrequencyDiagnosis extends LowFrequencyDiagnosis {
+  source: 'left' | 'right' | 'subwoofer'
+  sourcePoint: Point
+}
+
 export type LowFrequencyMeasurement = { samples: Float32Array | Float64Array; sampleRate: number } | { freqsHz: number[]; splDb: number[] }
 
 export interface LowFrequencyPeakOptions {

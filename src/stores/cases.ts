@@ -183,7 +183,8 @@ export const useCasesStore = defineStore('cases', () => {
     const jobs: Promise<void>[] = []
     if (kinds.some((k) => STATUS_KINDS.has(k))) jobs.push(refreshDetail())
     if (kinds.some((k) => MESSAGE_KINDS.has(k))) jobs.push(refreshMessages())
-    if (kinds.some((k) => FILE_KINDS.has(k))) jobs.push(refreshFiles())
+    // A reply can bring files with it: the team's uploads become visible to the listener only then.
+    if (kinds.some((k) => FILE_KINDS.has(k) || MESSAGE_KINDS.has(k))) jobs.push(refreshFiles())
     if (kinds.some((k) => TRIAGE_KINDS.has(k))) jobs.push(refreshTriage(), refreshDetail())
     if (kinds.some((k) => PLAN_KINDS.has(k))) planChanges.value++
     await Promise.all(jobs)

@@ -1,45 +1,7 @@
 import { describe, expect, it } from 'vitest'
 import { explainLowFrequencyPeaks, describeLowFrequencyFeature } from '../../../shared/signal'
 
-/**
- * Synthetic impulse responses built from known modes of a rigid rectangular room, independently of the
- * engine: Rayleigh's closed form f = (c/2)·√((nx/Lx)² + (ny/Ly)² + (nz/Lz)²) with
- * c = 331.3·√(1 + θ/273.15) (REFERENCES.md), cosine mode shapes at the source and the seat, each mode a
- * damped sine decaying 60 dB in T seconds (δ = 3·ln10/T), weighted 2^(non-zero indices) (1/K of the
- * normalised mode). Sources: Kuttruff, Room Acoustics, ch. 3 (modal sum of the rectangular room).
- */
-const C20 = 331.3 * Math.sqrt(1 + 20 / 273.15)
-const rayleigh = (room: Box, n: number[]) => (C20 / 2) * Math.hypot(n[0] / room.length, n[1] / room.width, n[2] / room.height)
-interface Box { length: number; width: number; height: number }
-interface P { x: number; y: number; z: number }
-const shape = (room: Box, n: number[], p: P) =>
-  Math.cos((n[0] * Math.PI * p.x) / room.length) * Math.cos((n[1] * Math.PI * p.y) / room.width) * Math.cos((n[2] * Math.PI * p.z) / room.height)
-
-function modalIr(room: Box, src: P, seat: P, opts: { rt: number; maxHz?: number; sampleRate?: number; seconds?: number; extra?: { hz: number; amp: number; rt: number }[] }): Float64Array {
-  const fs = opts.sampleRate ?? 8000
-  const n = Math.round((opts.seconds ?? 3) * fs)
-  const lead = Math.round(0.005 * fs)
-  const x = new Float64Array(n)
-  const maxHz = opts.maxHz ?? 260
-  const terms: { hz: number; amp: number; rt: number }[] = []
-  for (let a = 0; a < 20; a++) for (let b = 0; b < 20; b++) for (let c = 0; c < 20; c++) {
-    if (a + b + c === 0) continue
-    const hz = rayleigh(room, [a, b, c])
-    if (hz > maxHz) continue
-    const nz = (a > 0 ? 1 : 0) + (b > 0 ? 1 : 0) + (c > 0 ? 1 : 0)
-    terms.push({ hz, amp: 2 ** nz * shape(room, [a, b, c], src) * shape(room, [a, b, c], seat), rt: opts.rt })
-  }
-  terms.push(...(opts.extra ?? []))
-  for (const t of terms) {
-    const w = 2 * Math.PI * t.hz
-    const d = (3 * Math.LN10) / t.rt
-    for (let i = lead; i < n; i++) {
-      const s = (i - lead) / fs
-      x[i] += t.amp * Math.exp(-d * s) * Math.sin(w * s)
-    }
-  }
-  return x
-}
+import { C20, modalIr, rayleigh } from './modal-synthetic'
 
 const room = { length: 5.0, width: 3.8, height: 2.6 }
 // the seat at half the height (odd height modes vanish there, as at most ear heights in a 2.6 m room)
@@ -85,6 +47,20 @@ describe('explainLowFrequencyPeaks', () => {
     expect(p!.cause).toEqual({ kind: 'unexplained' })
     expect(d.explainedShare).toBeLessThan(1)
     expect(describeLowFrequencyFeature(p!)).toMatch(/^24 Hz: unexplained, \d+ dB/)
+  })
+
+  it('does not explain a peak by a mode the seat sits on a null of: a lone resonance at the first width mode heard at half the width is unexplained', () => {
+    // (0,1,0) at c/(2·3.8) ≈ 45.2 Hz (Rayleigh) has its nodal plane at y = W/2; the seat there cannot hear it
+    const mid = { ...seat, y: room.width / 2 }
+    const fs = 8000
+    const x = new Float64Array(3 * fs)
+    const f = rayleigh(room, [0, 1, 0])
+    for (let i = 40; i < x.length; i++) x[i] = Math.exp((-3 * Math.LN10 * (i - 40)) / fs / 0.8) * Math.sin((2 * Math.PI * f * (i - 40)) / fs)
+    const onNull = explainLowFrequencyPeaks({ samples: x, sampleRate: fs }, room, source, mid)
+    expect(onNull.peaks.find((q) => Math.abs(q.hz - f) < 1)?.cause).toEqual({ kind: 'unexplained' })
+    // the same response, the seat off the null: the width mode explains it
+    const off = explainLowFrequencyPeaks({ samples: x, sampleRate: fs }, room, source, seat)
+    expect(off.peaks.find((q) => Math.abs(q.hz - f) < 1)?.cause).toMatchObject({ kind: 'mode', indices: [0, 1, 0] })
   })
 
   it("a single mode's peak falls 30 dB in half its reverberation time (exponential decay: 60 dB in T, closed form)", () => {
