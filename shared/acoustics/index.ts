@@ -19,6 +19,8 @@ export type { BoundaryNotch } from './boundaries'
 export { porousAbsorption } from './absorbers'
 export { setupFlags } from './setup-flags'
 export type { SetupFlag } from './setup-flags'
+export { searchSubwoofers } from './subwoofers'
+export type { SubwooferSearchOptions, SubwooferLayout, SubwooferSearch } from './subwoofers'
 
 // additions
 export {
@@ -29,6 +31,10 @@ export {
   modePressure, modePositionClass, modeCountEstimate, modalDensity, analyzeModes, compareRatios, modalResponse, rt60At, MODAL_CONVERGENCE_DB,
 } from './modes'
 export type { ModeAnalysis, ModeCoincidence, AxialGap, ThirdOctaveModeCount, RatioReference, ModalResponse, ModalResponseOptions, Rt60Spec } from './modes'
+export { subwooferCandidates, subwooferLayoutResponse } from './subwoofers'
+export { subwooferAdvice } from './subwoofer-advice'
+export type { SubwooferAdvice, SubwooferAdviceLayout } from './subwoofer-advice'
+export type { SubwooferLayoutResponse } from './subwoofers'
 export { searchPositions } from './position-search'
 export type { PositionSearch, PositionSearchOptions, SpreadAt } from './position-search'
 export {

@@ -7,6 +7,7 @@ import { treatmentAbsorption } from './absorption'
 import type { TreatmentAbsorption } from './absorption'
 import { insideRect } from './geometry'
 import { changeTitle, changeSummary } from './summary'
+import { predictSubwooferItem, type SubwooferItemPrediction } from './subwoofers'
 
 export type RtRule = 'domestic' | 'bs1116'
 
@@ -90,6 +91,8 @@ export interface PlanPredictions {
   /** the room after each step of `order`, cumulatively */
   steps: { changeId: string; outcome: Outcome }[]
   effectMeasure: string
+  /** the plan's subwoofer item, when it has one (predicted beside the changes, see predictSubwooferItem) */
+  subwooferLayout?: SubwooferItemPrediction
 }
 
 /**
@@ -292,5 +295,6 @@ export function predictPlan(room: PlanRoom, body: PlanBody, opts: { rtTarget?: R
     order,
     steps,
     effectMeasure: EFFECT_MEASURE,
+    ...(body.subwooferLayout ? { subwooferLayout: predictSubwooferItem(room, body.subwooferLayout) } : {}),
   }
 }

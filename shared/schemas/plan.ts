@@ -43,6 +43,18 @@ export type PlanTreatmentInput = z.input<typeof planTreatmentSchema>
 
 export const planSpeakerMoveSchema = planPointSchema.extend({ label: z.string().trim().min(1).max(40) })
 
+/**
+ * Subwoofers the plan places (a layout of the subwoofer search, adopted as it is or edited): where
+ * each stands and its relative level, 0 dB for the loudest. Predicted on its own (seat-to-seat
+ * variation and spread before and after), beside the changes below.
+ */
+export const planSubwoofersSchema = z.object({
+  positions: z.array(planPointSchema).min(1, 'place at least one subwoofer').max(4),
+  gainsDb: z.array(z.number().finite().min(-30, 'a subwoofer turned down more than 30 dB is as good as off').max(0, 'levels are relative to the loudest: 0 dB or below')).max(4),
+  note: z.string().max(2000).default(''),
+})
+export type PlanSubwoofers = z.output<typeof planSubwoofersSchema>
+
 /** The content of one plan version. Change ids: 'seat', 'speakers', 'subwoofers' and each treatment's id. */
 export const planBodySchema = z.object({
   /** where the main seat should go (null: stays) */
@@ -59,6 +71,8 @@ export const planBodySchema = z.object({
   notes: z.string().max(20_000).default(''),
   /** the advisor's order of the changes (ids); empty: biggest effect first */
   order: z.array(z.string().max(40)).max(80).default([]),
+  /** a subwoofer layout adopted from the subwoofer search (predicted on its own, not an ordered change) */
+  subwooferLayout: planSubwoofersSchema.optional(),
 })
 export type PlanBody = z.output<typeof planBodySchema>
 export type PlanBodyInput = z.input<typeof planBodySchema>
@@ -91,6 +105,17 @@ export function planIssues(body: PlanBody, room: { length: number; width: number
     if (p.x > room.length) issues.push({ path: `${path}.x`, message: `x = ${p.x} m lies beyond the length ${room.length} m` })
     if (p.y > room.width) issues.push({ path: `${path}.y`, message: `y = ${p.y} m lies beyond the width ${room.width} m` })
     if (p.z > room.height) issues.push({ path: `${path}.z`, message: `z = ${p.z} m lies above the height ${room.height} m` })
+  }
+  if (body.subwooferLayout) {
+    if (body.subwooferLayout.gainsDb.length !== body.subwooferLayout.positions.length) {
+      issues.push({ path: 'subwooferLayout.gainsDb', message: `give one level per subwoofer (${body.subwooferLayout.positions.length})` })
+    }
+    body.subwooferLayout.positions.forEach((p, i) => {
+      const path = `subwooferLayout.positions.${i}`
+      if (p.x > room.length) issues.push({ path: `${path}.x`, message: `x = ${p.x} m lies beyond the length ${room.length} m` })
+      if (p.y > room.width) issues.push({ path: `${path}.y`, message: `y = ${p.y} m lies beyond the width ${room.width} m` })
+      if (p.z > room.height) issues.push({ path: `${path}.z`, message: `z = ${p.z} m lies above the height ${room.height} m` })
+    })
   }
   const known = new Set(['seat', 'speakers', 'subwoofers', ...ids])
   body.order.forEach((id, i) => { if (!known.has(id)) issues.push({ path: `order.${i}`, message: `no change has the id "${id}"` }) })
