@@ -56,11 +56,11 @@ async function diagnosisFor(caseId: string): Promise<DiagnosisContext | undefine
 async function after(fileId: string, status: string) {
   const f = await findFile(fileId)
   if (!f) return
-  const seq = await insertEvent({ caseId: f.case_id, actorId: null, kind: 'analysis', data: { fileId, status, name: f.original_name, reason: f.analysis_error } })
+  const seq = await insertEvent({ caseId: f.caseId, actorId: null, kind: 'analysis', data: { fileId, status, name: f.originalName, reason: f.analysisError } })
   // An analysis of a file the listener may not see is news for the team only (server/data/visibility.ts).
   const internal = await fileIsTeamOnly(fileId)
-  publishCase(f.case_id, { type: 'case.analysis', caseId: f.case_id, fileId, status }, { internal })
-  publishCase(f.case_id, { type: 'case.event', caseId: f.case_id, seq, kind: 'analysis', ...(internal ? { internal } : {}) }, { internal })
+  publishCase(f.caseId, { type: 'case.analysis', caseId: f.caseId, fileId, status }, { internal })
+  publishCase(f.caseId, { type: 'case.event', caseId: f.caseId, seq, kind: 'analysis', ...(internal ? { internal } : {}) }, { internal })
 }
 
 export async function runAnalysisJob(job: { data: { fileId: string } }) {
@@ -70,10 +70,10 @@ export async function runAnalysisJob(job: { data: { fileId: string } }) {
       if (!f) throw new Error(`file ${fileId} no longer exists`)
       await setAnalysis(fileId, 'running', null, null)
       return {
-        bytes: await storage().getBuffer(f.storage_key),
-        fileName: f.original_name,
-        predicted: await predictedFor(f.case_id),
-        diagnosis: await diagnosisFor(f.case_id),
+        bytes: await storage().getBuffer(f.storageKey),
+        fileName: f.originalName,
+        predicted: await predictedFor(f.caseId),
+        diagnosis: await diagnosisFor(f.caseId),
       }
     },
     saveResult: async (fileId, result) => {
