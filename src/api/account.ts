@@ -11,6 +11,8 @@ export interface MailboxMessage {
   subject: string
   text: string | null
   html: string | null
+  /** header names in lower case */
+  headers?: Record<string, string | string[]>
   receivedAt: string
 }
 export const listMailbox = (query: { to?: string; before?: number } = {}) =>

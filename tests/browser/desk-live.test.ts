@@ -78,6 +78,14 @@ describe('advisor and listener in two browsers, with e-mail both ways', () => {
     expect(mail.subject).toMatch(/Piano sounds thin/)
     // The markdown is rendered (and sanitised) in the e-mail's HTML part.
     expect(mail.html).toContain('<strong>30 cm further from the back wall</strong>')
+    // The mailbox page shows the Reply-To address that reply-by-e-mail depends on.
+    const supCtx = await browser.newContext({ viewport: { width: 1280, height: 900 } })
+    const sp = await signInAs(supCtx, server.url, s.email, s.password)
+    await sp.waitForURL(/\/dashboard$/)
+    await sp.goto(`${server.url}/mailbox`)
+    await sp.getByText(mail.subject).first().click()
+    await expect.poll(() => sp.getByTestId('mailbox-reply-to').textContent()).toMatch(/Reply-To: .*reply\+[A-Za-z0-9]+@/)
+    await supCtx.close()
     const { db } = await import('../../server/db/sequelize')
     const [{ reply_token: token }] = await db().query<{ reply_token: string }>('SELECT reply_token FROM cases WHERE id = $1', { bind: [c.id], type: QueryTypes.SELECT })
 

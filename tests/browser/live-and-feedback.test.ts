@@ -74,7 +74,7 @@ describe("the listener's case page follows the case live", () => {
     await expect.poll(() => page.getByTestId('case-status').first().textContent()).toMatch(/plan/i)
     expect(reloads).toBe(0)
     await context.close()
-  })
+  }, 240_000)
 
   it('a draft case page makes no request that fails (no triage is asked for before submission)', async () => {
     const { listener, c } = await listenerCase('Draft without a triage')
