@@ -100,19 +100,18 @@ export async function queuePage(userId: string, query: QueueQuery): Promise<Queu
   const cap = countCap(query)
   const countBind = [...sql.bind, cap + 1]
   const counted = select<{ n: number }>(`SELECT count(*)::int AS n FROM (SELECT 1 FROM cases c WHERE ${sql.where} LIMIT $${countBind.length}) x`, countBind)
-  const page = query.sort === 'priority' && query.dir === 'desc' && !query.q
-    ? await byPriority(sql, offset, query.pageSize)
-    : await bySort(sql, query, offset)
-  const details = page.length ? await summaries(page.map((r) => r.id)) : new Map<string, CaseSummary>()
-  const n = (await counted)[0].n
-  return {
-    rows: page.flatMap((r) => {
+  let rows: QueueRow[]
+  if (query.sort === 'priority' && query.dir === 'desc' && !query.q) rows = await byPriority(sql, offset, query.pageSize)
+  else {
+    const page = await bySort(sql, query, offset)
+    const details = page.length ? await summaries(page.map((r) => r.id)) : new Map<string, CaseSummary>()
+    rows = page.flatMap((r) => {
       const s = details.get(r.id)
       return s ? [{ ...s, priority: Math.round(r.priority * 10) / 10 }] : []
-    }),
-    total: Math.min(n, cap),
-    totalCapped: n > cap,
+    })
   }
+  const n = (await counted)[0].n
+  return { rows, total: Math.min(n, cap), totalCapped: n > cap }
 }
 
 /** Any sort, any filter: one ordered scan of the matching cases (open work by default, so bounded by the desk's size). */
@@ -140,55 +139,79 @@ const before = (x: { g: boolean; priority: number; id: string }, y: { g: boolean
  * middleware", PODS 2001) says when that is exact: no case outside the candidates can beat the stream
  * heads' bound. When it cannot be proved, m grows and the read repeats (rare: ties, deep pages).
  */
-export async function byPriority({ where, bind }: Sql, offset: number, size: number): Promise<{ id: string; priority: number }[]> {
+export async function byPriority({ where, bind }: Sql, offset: number, size: number): Promise<QueueRow[]> {
   const want = offset + size
-  // m: deep enough that one read is usually provably exact (rows are cheap, a second round trip is not)
+  // m: deep enough that one read is usually provably exact (a second round trip costs more than rows)
   for (let m = Math.max(8 * want, 200); ; m *= 4) {
-    const b = [...bind, m]
-    const lim = `$${b.length}`
-    const cols = (s: string, key: string) => `SELECT '${s}' AS s, c.id, ${NEEDS} AS g, ${prioritySql} AS priority, ${key} AS key FROM cases c`
-    const rows = await select<Candidate>(
-      `(${cols('a', `${SCORE} + 24`)} WHERE ${where} AND c.waiting_since IS NOT NULL ORDER BY ${NEEDS} DESC, ${SCORE} DESC LIMIT ${lim})
-       UNION ALL (${cols('b', UNCAPPED)} WHERE ${where} AND c.waiting_since IS NOT NULL ORDER BY ${NEEDS} DESC, ${RANK} DESC LIMIT ${lim})
-       UNION ALL (${cols('n', SCORE)} WHERE ${where} AND c.waiting_since IS NULL ORDER BY ${NEEDS} DESC, ${SCORE} DESC LIMIT ${lim})`,
+    const b = [...bind, m, size, offset]
+    const [lim, sizeP, offsetP] = [b.length - 2, b.length - 1, b.length].map((i) => `$${i}`)
+    const stream = (key: string, ws: string, order: string) =>
+      `SELECT c.id, ${NEEDS} AS g, ${prioritySql} AS priority, ${key} AS key FROM cases c WHERE ${where} AND c.waiting_since ${ws} ORDER BY ${NEEDS} DESC, ${order} DESC LIMIT ${lim}`
+    const head = (t: string) => `(SELECT count(*)::int FROM ${t}) AS n${t}, (SELECT g FROM ${t} ORDER BY g, key LIMIT 1) AS g${t}, (SELECT key FROM ${t} ORDER BY g, key LIMIT 1) AS k${t}`
+    // The merge, the stream heads and the page's columns in one statement: one round trip, few rows.
+    const rows = await select<SummaryRow & Heads & { priority: number | null; g: boolean | null }>(
+      `WITH a AS (${stream(`${SCORE} + 24`, 'IS NOT NULL', SCORE)}),
+            b AS (${stream(UNCAPPED, 'IS NOT NULL', RANK)}),
+            n AS (${stream(SCORE, 'IS NULL', SCORE)}),
+            cand AS (SELECT id, g, priority FROM a UNION SELECT id, g, priority FROM b UNION SELECT id, g, priority FROM n),
+            heads AS (SELECT ${head('a')}, ${head('b')}, ${head('n')})
+       SELECT h.*, t.g, t.priority, d.*
+         FROM heads h
+         LEFT JOIN LATERAL (SELECT id, g, priority FROM cand ORDER BY g DESC, priority DESC, id LIMIT ${sizeP} OFFSET ${offsetP}) t ON true
+         LEFT JOIN LATERAL (${summarySql} WHERE c.id = t.id) d ON true
+        ORDER BY t.g DESC, t.priority DESC, t.id`,
       b,
     )
-    const result = mergeStreams(rows.map((r) => ({ ...r, priority: Number(r.priority), key: Number(r.key) })), m, want)
-    if (result) return result.slice(offset, want).map(({ id, priority }) => ({ id, priority }))
+    const h = rows[0]
+    const page = rows.filter((r) => r.id !== null)
+    const last = page.at(-1)
+    const heads: StreamHeads = {
+      a: { count: h.na, last: h.na ? { g: h.ga!, key: Number(h.ka) } : undefined },
+      b: { count: h.nb, last: h.nb ? { g: h.gb!, key: Number(h.kb) } : undefined },
+      n: { count: h.nn, last: h.nn ? { g: h.gn!, key: Number(h.kn) } : undefined },
+    }
+    if (proved(heads, m, offset + page.length, want, last ? { g: last.g!, priority: Number(last.priority) } : undefined)) {
+      return page.map((r) => ({ ...toSummary(r), priority: Math.round(Number(r.priority) * 10) / 10 }))
+    }
   }
 }
 
+interface Heads { na: number; ga: boolean | null; ka: number | null; nb: number; gb: boolean | null; kb: number | null; nn: number; gn: boolean | null; kn: number | null }
+type StreamHeads = Record<'a' | 'b' | 'n', { count: number; last?: { g: boolean; key: number } }>
+
 /**
- * Merges the three streams' first `m` rows; the first `want` in queue order, or null when they are not
- * provably the true first `want` (a stream that returned fewer than `m` rows is exhausted: nothing unseen).
+ * Whether the first `want` cases in queue order are provably the true first `want`, given each stream's
+ * row count and last row (a stream that returned fewer than `m` rows is exhausted: nothing unseen),
+ * how many were found and the last of them (`worst`).
  */
-export function mergeStreams(rows: Candidate[], m: number, want: number): Candidate[] | null {
-  const last: Partial<Record<Candidate['s'], Candidate>> = {}
-  const count = { a: 0, b: 0, n: 0 }
-  const seen = new Map<string, Candidate>()
-  for (const r of rows) {
-    count[r.s]++
-    last[r.s] = r
-    seen.set(r.id, r)
-  }
-  const sorted = [...seen.values()].sort(before)
+export function proved(heads: StreamHeads, m: number, found: number, want: number, worst?: { g: boolean; priority: number }): boolean {
   // The best an unseen case could be, as (needs an answer, priority).
   const bounds: { g: boolean; priority: number }[] = []
-  const a = count.a === m ? last.a : undefined
-  const b = count.b === m ? last.b : undefined
+  const a = heads.a.count === m ? heads.a.last : undefined
+  const b = heads.b.count === m ? heads.b.last : undefined
   if (a && b) {
-    // an unseen waiting case is at most a's head in (g, score + 24) and b's head in (g, UNCAPPED)
+    // an unseen waiting case is at most a's last in (g, score + 24) and b's last in (g, UNCAPPED)
     if (a.g === b.g) bounds.push({ g: a.g, priority: Math.min(a.key, b.key) })
     else bounds.push(a.g ? { g: b.g, priority: b.key } : { g: a.g, priority: a.key })
   }
-  if (count.n === m && last.n) bounds.push({ g: last.n.g, priority: last.n.key })
-  const top = sorted.slice(0, want)
-  if (!bounds.length) return top
-  if (top.length < want) return null
-  const worst = top[top.length - 1]
+  if (heads.n.count === m && heads.n.last) bounds.push({ g: heads.n.last.g, priority: heads.n.last.key })
+  if (!bounds.length) return true
+  if (found < want || !worst) return false
   // strictly better than every bound (an unseen case with an equal priority might have a smaller id)
-  const proved = bounds.every((u) => (worst.g !== u.g ? worst.g : worst.priority > u.priority))
-  return proved ? top : null
+  return bounds.every((u) => (worst.g !== u.g ? worst.g : worst.priority > u.priority))
+}
+
+/** The same test over the streams' rows themselves: the first `want` in queue order, or null when not proved. */
+export function mergeStreams(rows: Candidate[], m: number, want: number): Candidate[] | null {
+  const heads: StreamHeads = { a: { count: 0 }, b: { count: 0 }, n: { count: 0 } }
+  const seen = new Map<string, Candidate>()
+  for (const r of rows) {
+    heads[r.s].count++
+    heads[r.s].last = { g: r.g, key: r.key }
+    seen.set(r.id, r)
+  }
+  const top = [...seen.values()].sort(before).slice(0, want)
+  return proved(heads, m, top.length, want, top.at(-1)) ? top : null
 }
 
 interface SummaryRow {
@@ -201,10 +224,8 @@ interface SummaryRow {
 
 const iso = (d: Date | null) => (d ? new Date(d).toISOString() : null)
 
-/** The queue's columns for a page of case ids (no description, answers or reply token: a summary only). */
-async function summaries(ids: string[]): Promise<Map<string, CaseSummary>> {
-  const rows = await select<SummaryRow>(
-    `SELECT c.id, c.title, c.status, c.score, c.listener_id, l.name AS listener_name, c.assignee_id, a.name AS assignee_name,
+/** The queue's columns of a case (no description, answers or reply token: a summary only). */
+const summarySql = `SELECT c.id, c.title, c.status, c.score, c.listener_id, l.name AS listener_name, c.assignee_id, a.name AS assignee_name,
             c.room_id, r.name AS room_name, c.room_revision,
             (rr.body->>'length')::float AS length, (rr.body->>'width')::float AS width, (rr.body->>'height')::float AS height,
             c.flags, c.created_at, c.submitted_at, c.waiting_since, c.last_activity_at
@@ -212,22 +233,25 @@ async function summaries(ids: string[]): Promise<Map<string, CaseSummary>> {
        JOIN users l ON l.id = c.listener_id
        LEFT JOIN users a ON a.id = c.assignee_id
        JOIN rooms r ON r.id = c.room_id
-       JOIN room_revisions rr ON rr.room_id = c.room_id AND rr.revision = c.room_revision
-      WHERE c.id = ANY($1::uuid[])`,
-    [ids],
-  )
-  return new Map(rows.map((r) => [r.id, {
-    id: r.id,
-    title: r.title,
-    status: r.status,
-    score: r.score,
-    listener: { id: r.listener_id, name: r.listener_name },
-    assignee: r.assignee_id ? { id: r.assignee_id, name: r.assignee_name ?? '' } : null,
-    room: { id: r.room_id, name: r.room_name, revision: r.room_revision, length: Number(r.length), width: Number(r.width), height: Number(r.height) },
-    flags: r.flags ?? [],
-    createdAt: iso(r.created_at)!,
-    submittedAt: iso(r.submitted_at),
-    waitingSince: iso(r.waiting_since),
-    lastActivityAt: iso(r.last_activity_at)!,
-  }]))
+       JOIN room_revisions rr ON rr.room_id = c.room_id AND rr.revision = c.room_revision`
+
+const toSummary = (r: SummaryRow): CaseSummary => ({
+  id: r.id,
+  title: r.title,
+  status: r.status,
+  score: r.score,
+  listener: { id: r.listener_id, name: r.listener_name },
+  assignee: r.assignee_id ? { id: r.assignee_id, name: r.assignee_name ?? '' } : null,
+  room: { id: r.room_id, name: r.room_name, revision: r.room_revision, length: Number(r.length), width: Number(r.width), height: Number(r.height) },
+  flags: r.flags ?? [],
+  createdAt: iso(r.created_at)!,
+  submittedAt: iso(r.submitted_at),
+  waitingSince: iso(r.waiting_since),
+  lastActivityAt: iso(r.last_activity_at)!,
+})
+
+/** The summaries of a page of case ids. */
+async function summaries(ids: string[]): Promise<Map<string, CaseSummary>> {
+  const rows = await select<SummaryRow>(`${summarySql} WHERE c.id = ANY($1::uuid[])`, [ids])
+  return new Map(rows.map((r) => [r.id, toSummary(r)]))
 }

@@ -2,7 +2,7 @@ import { readFileSync } from 'node:fs'
 import { fileURLToPath } from 'node:url'
 import { JSDOM } from 'jsdom'
 import createDOMPurify, { type DOMPurify } from 'dompurify'
-import { Marked } from 'marked'
+import { renderMarkdown } from '../../shared/markdown'
 import { z } from 'zod'
 import { config } from '../config'
 
@@ -79,36 +79,16 @@ export const caseUrl = (caseId: string) => `${publicBaseUrl()}/cases/${encodeURI
 
 // ---------------------------------------------------------------- markdown
 
-const marked = new Marked({ gfm: true, breaks: true, async: false })
 let purifier: DOMPurify | undefined
-function purify(): DOMPurify {
-  if (!purifier) {
-    const p = createDOMPurify(new JSDOM('').window as unknown as Parameters<typeof createDOMPurify>[0])
-    p.addHook('afterSanitizeAttributes', (node) => {
-      if (node.tagName === 'A' && node.hasAttribute('href')) {
-        node.setAttribute('rel', 'noopener noreferrer nofollow')
-        node.setAttribute('target', '_blank')
-      }
-    })
-    purifier = p
-  }
-  return purifier
-}
+const purify = (): DOMPurify => (purifier ??= createDOMPurify(new JSDOM('').window as unknown as Parameters<typeof createDOMPurify>[0]))
 
 /**
- * The one server-side markdown renderer (messages in the API and in e-mails): marked (GFM, line
- * breaks kept), then DOMPurify. No scripts, styles, forms, frames, event-handler attributes or
- * inline styles survive; links and images may only point at http(s), mailto, in-page anchors or
- * same-site paths.
+ * The one server-side markdown renderer (messages in the API and in e-mails): shared/markdown.ts with a
+ * DOMPurify over a jsdom window — the client's preview runs the same renderer with the browser's DOMPurify.
+ * Addresses are resolved against PUBLIC_URL.
  */
 export function renderMarkdownSafe(md: string): string {
-  const raw = marked.parse(md ?? '') as string
-  return purify().sanitize(raw, {
-    USE_PROFILES: { html: true },
-    FORBID_TAGS: ['style', 'form', 'input', 'button', 'textarea', 'select', 'option', 'iframe', 'frame', 'object', 'embed', 'base', 'link', 'meta'],
-    FORBID_ATTR: ['style', 'srcset', 'formaction'],
-    ALLOWED_URI_REGEXP: /^(?:https?:|mailto:|#|\/(?!\/))/i,
-  }) as string
+  return renderMarkdown(md, purify(), publicBaseUrl())
 }
 
 // ---------------------------------------------------------------- placeholders

@@ -49,7 +49,7 @@ export { MATERIALS, getMaterial, hasMaterial, materialForOpening, PANEL_FLOW_RES
 export type { Material, MaterialCategory } from './materials'
 export { porousAbsorptionRandom, porousOctaveBands, porousSurfaceImpedance, porousCharacteristics } from './absorbers'
 export type { PorousLayer, PorousModel, Complex } from './absorbers'
-export { SETUP_FLAG_IDS, FLAG_THRESHOLDS } from './setup-flags'
+export { SETUP_FLAG_IDS, FLAG_THRESHOLDS, lengthsInUnits } from './setup-flags'
 export type { SetupFlagInput } from './setup-flags'
 export { computeRoomAnalysis, ENGINE_VERSION } from './triage'
 export type {

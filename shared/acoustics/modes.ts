@@ -260,7 +260,8 @@ export function analyzeModes(
 }
 
 const RATIO_REFERENCES: { name: string; ratio: [number, number, number]; source: string }[] = [
-  { name: 'Bolt', ratio: [1, 1.26, 1.59], source: 'Cox, D\'Antonio & Avis, JAES 52(6), 2004, room sizing' },
+  // 1 : 1.26 : 1.59 is 1 : 2^(1/3) : 2^(2/3), the cube-root-of-two proportion: labelled by what it is, not by a person
+  { name: 'Cube-root-of-two ratio 1 : ∛2 : ∛4', ratio: [1, 1.26, 1.59], source: '1 : 2^(1/3) : 2^(2/3); listed among room-sizing ratios by Cox, D\'Antonio & Avis, JAES 52(6), 2004 (from memory)' },
   { name: 'Sepmeyer A', ratio: [1, 1.14, 1.39], source: 'Sepmeyer, JAES 1965 (from memory)' },
   { name: 'Sepmeyer B', ratio: [1, 1.28, 1.54], source: 'Sepmeyer, JAES 1965 (from memory)' },
   { name: 'Sepmeyer C', ratio: [1, 1.6, 2.33], source: 'Sepmeyer, JAES 1965 (from memory)' },

@@ -49,6 +49,8 @@ export interface AnalysisOptions {
   seatPositions?: number
   /** also search across the room with this many positions per row (default 0) */
   acrossPositions?: number
+  /** the listener's units for lengths in the setup-flag messages (default 'metric') */
+  units?: 'metric' | 'imperial'
 }
 
 /** Where a reflection meets its surface and what it meets there. */
@@ -236,6 +238,7 @@ export function computeRoomAnalysis(desc: RoomDescription, opts: AnalysisOptions
     speakerKinds: desc.speakers.map((s) => s.kind),
     speakerLabels: desc.speakers.map((s) => s.label),
     celsius,
+    units: opts.units,
   })
 
   const main = desc.seats[0]

@@ -25,7 +25,7 @@ export const planTreatmentSchema = z.object({
   /** metres: the absorbing layer's thickness (a diffuser's depth) */
   thickness: z.number().finite().min(0).max(1.5),
   airGap: z.number().finite().min(0).max(1).optional(),
-  /** Pa·s/m², for the porous model (default 10 000) */
+  /** Pa·s/m², for the porous model (default 36 000, the engine's PANEL_FLOW_RESISTIVITY) */
   flowResistivity: z.number().finite().min(1000).max(200_000).optional(),
   width: z.number().finite().gt(0, 'width must be more than 0 m').max(20),
   height: z.number().finite().gt(0, 'height must be more than 0 m').max(20),

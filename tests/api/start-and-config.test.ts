@@ -14,6 +14,14 @@ describe('configuration is validated at start-up', () => {
     expect(() => loadConfig({ PORT: 'eighty', DATABASE_URL: 'postgres://u@127.0.0.1/db' })).toThrow(ConfigError)
     expect(() => loadConfig({ PORT: 'eighty', DATABASE_URL: 'postgres://u@127.0.0.1/db' })).toThrow(/PORT/)
   })
+  it('production refuses a missing or development-default INBOUND_EMAIL_SECRET, naming the variable (issue 13, finding 6)', () => {
+    const prod = { DATABASE_URL: 'postgres://u@127.0.0.1/db', NODE_ENV: 'production', SESSION_SECRET: 'a-production-session-secret-42' }
+    expect(() => loadConfig(prod)).toThrow(/INBOUND_EMAIL_SECRET/)
+    expect(() => loadConfig({ ...prod, INBOUND_EMAIL_SECRET: 'roomwright-development-inbound-secret' })).toThrow(/INBOUND_EMAIL_SECRET/)
+    expect(() => loadConfig({ ...prod, INBOUND_EMAIL_SECRET: 'short' })).toThrow(/INBOUND_EMAIL_SECRET/)
+    expect(loadConfig({ ...prod, INBOUND_EMAIL_SECRET: 'a-secret-of-our-own-9d2f' }).INBOUND_EMAIL_SECRET).toBe('a-secret-of-our-own-9d2f')
+    expect(loadConfig({ DATABASE_URL: 'postgres://u@127.0.0.1/db' }).INBOUND_EMAIL_SECRET).toBe('roomwright-development-inbound-secret')
+  })
   it('a DATABASE_URL that is not a postgres URL is refused', () => {
     expect(() => loadConfig({ DATABASE_URL: 'mysql://x@y/z' })).toThrow(/DATABASE_URL must be a postgres/)
   })
