@@ -101,3 +101,21 @@ describe('migrations', () => {
     expect(after.search).toContain('rafter')
   }, 120_000)
 })
+
+describe('models', () => {
+  it('every application table has a model, and every model attribute is a column of its table', async () => {
+    const { models } = await import('../../server/db/models')
+    const { db } = await import('../../server/db/sequelize')
+    const cols = await db().query<{ table_name: string; column_name: string }>(
+      `SELECT table_name, column_name FROM information_schema.columns WHERE table_schema = 'public'`, { type: QueryTypes.SELECT })
+    // Library tables: umzug's ledger and the socket.io adapter's payload table have no model.
+    const library = new Set(['schema_migrations', 'socket_io_attachments'])
+    const tables = new Set(cols.map((c) => c.table_name).filter((t) => !library.has(t)))
+    const byTable = new Map(Object.values(models()).map((m) => [m.getTableName() as string, m]))
+    expect([...tables].sort()).toEqual([...byTable.keys()].sort())
+    for (const [table, m] of byTable) {
+      const have = new Set(cols.filter((c) => c.table_name === table).map((c) => c.column_name))
+      for (const a of Object.values(m.getAttributes())) expect(have, `${table}.${a.field}`).toContain(a.field)
+    }
+  })
+})

@@ -8,6 +8,8 @@ export class ReplySnippetModel extends Model<InferAttributes<ReplySnippetModel>,
   declare id: CreationOptional<string>
   declare title: string
   declare body: string
+  /** `personal`: the author's alone; `team`: everyone's (migration 0050). */
+  declare scope: CreationOptional<'personal' | 'team'>
   declare createdBy: ForeignKey<UserModel['id']> | null
   declare createdAt: CreationOptional<Date>
   declare updatedAt: CreationOptional<Date>
@@ -40,6 +42,7 @@ export function initDesk(sequelize: Sequelize) {
       id: { type: DataTypes.UUID, primaryKey: true, defaultValue: DataTypes.UUIDV4 },
       title: { type: DataTypes.STRING(80), allowNull: false },
       body: { type: DataTypes.TEXT, allowNull: false },
+      scope: { type: DataTypes.STRING(8), allowNull: false, defaultValue: 'personal', validate: { isIn: [['personal', 'team']] } },
       createdAt: { type: DataTypes.DATE, allowNull: false, defaultValue: dbNow() },
       updatedAt: { type: DataTypes.DATE, allowNull: false, defaultValue: dbNow() },
     },

@@ -13,13 +13,13 @@ import { FileModel, initFiles } from './file'
 import { TreatmentPlanModel, initPlans } from './plan'
 import { EmailOutboxModel, DevMailboxModel, InboundEmailLogModel, initMail } from './mail'
 import { ReplySnippetModel, SavedFilterModel, DeskSettingsModel, initDesk } from './desk'
-import { TeamInvitationModel, AuditLogModel, SessionModel, initTeam } from './team'
+import { TeamInvitationModel, AuditLogModel, PasswordResetTokenModel, SessionModel, initTeam } from './team'
 import { sharedWithListener, type Audience } from '../../data/visibility'
 
 export {
   UserModel, RoomModel, RoomRevisionModel, CaseModel, CaseEventModel, CaseRatingModel, TriageSnapshotModel, MessageModel, FileModel,
   TreatmentPlanModel, EmailOutboxModel, DevMailboxModel, InboundEmailLogModel, ReplySnippetModel, SavedFilterModel, DeskSettingsModel,
-  TeamInvitationModel, AuditLogModel, SessionModel,
+  TeamInvitationModel, AuditLogModel, PasswordResetTokenModel, SessionModel,
 }
 
 // Built on first use: user.ts imports this module back (for `userModel()`), so the classes may not exist yet at load time.
@@ -27,7 +27,7 @@ const build = () => ({
   User: UserModel, Room: RoomModel, RoomRevision: RoomRevisionModel, Case: CaseModel, CaseEvent: CaseEventModel, CaseRating: CaseRatingModel,
   TriageSnapshot: TriageSnapshotModel, Message: MessageModel, File: FileModel, TreatmentPlan: TreatmentPlanModel,
   EmailOutbox: EmailOutboxModel, DevMailbox: DevMailboxModel, InboundEmailLog: InboundEmailLogModel, ReplySnippet: ReplySnippetModel,
-  SavedFilter: SavedFilterModel, DeskSettings: DeskSettingsModel, TeamInvitation: TeamInvitationModel, AuditLog: AuditLogModel, Session: SessionModel,
+  SavedFilter: SavedFilterModel, DeskSettings: DeskSettingsModel, TeamInvitation: TeamInvitationModel, AuditLog: AuditLogModel, PasswordResetToken: PasswordResetTokenModel, Session: SessionModel,
 })
 export type Models = ReturnType<typeof build>
 let all: Models
@@ -116,6 +116,8 @@ function associate() {
   all.TeamInvitation.belongsTo(User, { as: 'acceptedUser', ...fk('acceptedUserId') })
   all.AuditLog.belongsTo(User, { as: 'actor', ...fk('actorId') })
   all.AuditLog.belongsTo(User, { as: 'targetUser', ...fk('targetUserId') })
+  User.hasMany(all.PasswordResetToken, { as: 'passwordResetTokens', ...fk('userId', true) })
+  all.PasswordResetToken.belongsTo(User, { as: 'user', ...fk('userId', true) })
   all.Session.belongsTo(User, { as: 'user', foreignKey: 'userId', constraints: false })
 }
 

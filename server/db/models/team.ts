@@ -30,6 +30,16 @@ export class AuditLogModel extends Model<InferAttributes<AuditLogModel>, InferCr
   declare actor?: NonAttribute<UserModel | null>
 }
 
+/** A one-time password-reset link (migration 0051); only a SHA-256 of the token is kept. */
+export class PasswordResetTokenModel extends Model<InferAttributes<PasswordResetTokenModel>, InferCreationAttributes<PasswordResetTokenModel>> {
+  declare id: CreationOptional<string>
+  declare userId: ForeignKey<UserModel['id']>
+  declare tokenHash: string
+  declare createdAt: CreationOptional<Date>
+  declare expiresAt: Date
+  declare spentAt: CreationOptional<Date | null>
+}
+
 /** connect-pg-simple's table; the model is only for ending a person's sessions (user_id is a generated column). */
 export class SessionModel extends Model<InferAttributes<SessionModel>, InferCreationAttributes<SessionModel>> {
   declare sid: string
@@ -63,6 +73,16 @@ export function initTeam(sequelize: Sequelize) {
       createdAt: { type: DataTypes.DATE, allowNull: false, defaultValue: dbNow() },
     },
     { sequelize, modelName: 'AuditLog', tableName: 'audit_log', underscored: true, timestamps: false },
+  )
+  PasswordResetTokenModel.init(
+    {
+      id: { type: DataTypes.UUID, primaryKey: true, defaultValue: DataTypes.UUIDV4 },
+      tokenHash: { type: DataTypes.CHAR(64), allowNull: false, unique: true },
+      createdAt: { type: DataTypes.DATE, allowNull: false, defaultValue: dbNow() },
+      expiresAt: { type: DataTypes.DATE, allowNull: false },
+      spentAt: { type: DataTypes.DATE, allowNull: true },
+    },
+    { sequelize, modelName: 'PasswordResetToken', tableName: 'password_reset_tokens', underscored: true, timestamps: false },
   )
   SessionModel.init(
     {
