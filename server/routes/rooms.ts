@@ -1,20 +1,20 @@
 import { Router } from 'express'
-import { z } from 'zod'
+import { idParamsSchema, revisionQuerySchema } from '../../shared/schemas/params'
 import { requireRole, requireSignedIn, currentUser } from '../middleware/guards'
 import { validate } from '../middleware/validate'
 import { roomSchema } from '../../shared/schemas/room'
 import { createRoom, getRoom, listMyRooms, previewRoom, saveRoomRevision } from '../services/rooms'
 
-const revisionQuery = z.object({ revision: z.coerce.number().int().positive().optional() })
+const id = validate(idParamsSchema, 'params')
 
 export function roomsRouter(): Router {
   const router = Router()
   router.get('/', requireRole('listener'), async (req, res) => res.json({ rooms: await listMyRooms(currentUser(req)) }))
   router.post('/', requireRole('listener'), validate(roomSchema), async (req, res) => res.status(201).json(await createRoom(currentUser(req), res.locals.body)))
   router.post('/preview', requireSignedIn, validate(roomSchema), (_req, res) => res.json(previewRoom(res.locals.body)))
-  router.get('/:id', requireSignedIn, validate(revisionQuery, 'query'), async (req, res) =>
+  router.get('/:id', requireSignedIn, id, validate(revisionQuerySchema, 'query'), async (req, res) =>
     res.json(await getRoom(currentUser(req), String(req.params.id), res.locals.query.revision)))
-  router.put('/:id', requireRole('listener'), validate(roomSchema), async (req, res) =>
+  router.put('/:id', requireRole('listener'), id, validate(roomSchema), async (req, res) =>
     res.json(await saveRoomRevision(currentUser(req), String(req.params.id), res.locals.body)))
   return router
 }
