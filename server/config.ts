@@ -1,22 +1,71 @@
 import { z } from 'zod'
 
+/** Words accepted for a yes/no setting; anything else stops the start with the variable's name. */
+const TRUE_WORDS = ['true', '1', 'yes', 'on']
+const FALSE_WORDS = ['false', '0', 'no', 'off']
+
+/**
+ * A yes/no variable, read strictly: true/false, 1/0, yes/no (and on/off), any letter case; unset or
+ * empty takes the default. (z.coerce.boolean() would read every non-empty string, "false" and "0"
+ * included, as true.)
+ */
+function flag(name: string, fallback: boolean) {
+  return z
+    .string()
+    .optional()
+    .transform((v, ctx) => {
+      if (v === undefined || v.trim() === '') return fallback
+      const w = v.trim().toLowerCase()
+      if (TRUE_WORDS.includes(w)) return true
+      if (FALSE_WORDS.includes(w)) return false
+      ctx.addIssue({ code: 'custom', message: `${name} must be one of true/false, 1/0, yes/no (got "${v}")` })
+      return z.NEVER
+    })
+}
+
+/** An on/off variable kept as 'on' | 'off' for the code that reads it, parsed as strictly as {@link flag}. */
+const onOff = (name: string, fallback: 'on' | 'off') => flag(name, fallback === 'on').transform((b): 'on' | 'off' => (b ? 'on' : 'off'))
+
+/**
+ * A whole number in decimal digits only, within [min, max]; unset or empty takes the default.
+ * (z.coerce.number() would take "" as 0, "0x50" as 80 and "1e3" as 1000.)
+ */
+function whole(name: string, fallback: number, min: number, max: number) {
+  return z
+    .string()
+    .optional()
+    .transform((v, ctx) => {
+      if (v === undefined || v.trim() === '') return fallback
+      if (!/^\d+$/.test(v.trim())) {
+        ctx.addIssue({ code: 'custom', message: `${name} must be a whole number (got "${v}")` })
+        return z.NEVER
+      }
+      const n = Number(v.trim())
+      if (n < min || n > max) {
+        ctx.addIssue({ code: 'custom', message: `${name} must be between ${min} and ${max} (got ${n})` })
+        return z.NEVER
+      }
+      return n
+    })
+}
+
+/** The development default of the inbound webhook's secret: public (it is in this file), so never accepted in production. */
+export const DEV_INBOUND_SECRET = 'roomwright-development-inbound-secret'
+
 /**
  * Every setting Roomwright reads from the environment, each with a default or marked required,
  * validated once at start-up: a bad value stops the process with a message naming the variable.
  */
-/** The development default of the inbound webhook's secret: public (it is in this file), so never accepted in production. */
-export const DEV_INBOUND_SECRET = 'roomwright-development-inbound-secret'
-
 const schema = z.object({
   NODE_ENV: z.enum(['development', 'production', 'test']).default('development'),
-  PORT: z.coerce.number().int('PORT must be a whole number').min(0).max(65535, 'PORT must be at most 65535').default(3000),
+  PORT: whole('PORT', 3000, 0, 65535),
   HOST: z.string().default('127.0.0.1'),
   DATABASE_URL: z
     .string({ error: 'DATABASE_URL is required (npm start provisions one for you)' })
     .refine((v) => /^postgres(ql)?:\/\/[^\s]+$/.test(v), 'DATABASE_URL must be a postgres:// URL'),
   SESSION_SECRET: z.string().min(16, 'SESSION_SECRET must be at least 16 characters').default('roomwright-development-session-secret'),
   PUBLIC_URL: z.string().url().optional(),
-  TRUST_PROXY: z.coerce.boolean().default(false),
+  TRUST_PROXY: flag('TRUST_PROXY', false),
   STORAGE_DRIVER: z.enum(['local', 's3']).default('local'),
   STORAGE_DIR: z.string().default('.data/storage'),
   S3_ENDPOINT: z.string().url().optional(),
@@ -25,18 +74,22 @@ const schema = z.object({
   S3_ACCESS_KEY_ID: z.string().optional(),
   S3_SECRET_ACCESS_KEY: z.string().optional(),
   SMTP_HOST: z.string().default('127.0.0.1'),
-  SMTP_PORT: z.coerce.number().int().min(0).max(65535).default(2525),
+  SMTP_PORT: whole('SMTP_PORT', 2525, 0, 65535),
   SMTP_USER: z.string().optional(),
   SMTP_PASS: z.string().optional(),
-  SMTP_SECURE: z.coerce.boolean().default(false),
+  SMTP_SECURE: flag('SMTP_SECURE', false),
   MAIL_FROM: z.string().default('Roomwright <desk@roomwright.test>'),
   MAIL_REPLY_DOMAIN: z.string().default('reply.roomwright.test'),
-  FAKE_SMTP: z.enum(['on', 'off']).default('off'),
+  FAKE_SMTP: onOff('FAKE_SMTP', 'off'),
   INBOUND_EMAIL_SECRET: z.string().min(16, 'INBOUND_EMAIL_SECRET must be at least 16 characters').default(DEV_INBOUND_SECRET),
-  JOBS: z.enum(['on', 'off']).default('on'),
-  LOGIN_RATE_LIMIT: z.coerce.number().int().positive().default(20),
+  JOBS: onOff('JOBS', 'on'),
+  /** Failed sign-ins allowed per account in SIGN_IN_WINDOW_MINUTES (successful ones do not count). */
+  SIGN_IN_FAILURES_PER_ACCOUNT: whole('SIGN_IN_FAILURES_PER_ACCOUNT', 10, 1, 1_000_000),
+  /** Failed password attempts allowed per client address in the window (high: one office shares an address). */
+  LOGIN_RATE_LIMIT: whole('LOGIN_RATE_LIMIT', 100, 1, 1_000_000),
+  SIGN_IN_WINDOW_MINUTES: whole('SIGN_IN_WINDOW_MINUTES', 15, 1, 24 * 60),
   /** Longest one SQL statement may run, ms: requests fail fast instead of piling up. Benchmarks raise it for bulk loads. */
-  DB_STATEMENT_TIMEOUT_MS: z.coerce.number().int().min(1000).max(3_600_000).default(15_000),
+  DB_STATEMENT_TIMEOUT_MS: whole('DB_STATEMENT_TIMEOUT_MS', 15_000, 1000, 3_600_000),
 })
 
 export type Config = z.infer<typeof schema>

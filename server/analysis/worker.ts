@@ -4,6 +4,10 @@
  * this thread. Loaded through worker-bootstrap.mjs, which registers tsx.
  */
 import { analyzeMeasurementBytes, MeasurementFileError } from '../../shared/signal/index'
+import { subwooferAdvice } from '../../shared/acoustics/subwoofer-advice'
+import type { SubwooferAdvice } from '../../shared/acoustics/subwoofer-advice'
+import type { RoomDescription } from '../../shared/acoustics/triage'
+import { attachLowFrequencyDiagnosis, type DiagnosisContext } from './diagnosis'
 import type { MeasurementAnalysisResult, MeasurementErrorCode, MeasurementKind, PredictedReflection } from '../../shared/signal/index'
 
 export interface AnalysisTask {
@@ -11,6 +15,8 @@ export interface AnalysisTask {
   fileName: string
   kind?: MeasurementKind
   predicted?: PredictedReflection[]
+  /** the case's room, speaker and main seat: the low-frequency peaks are explained when given */
+  diagnosis?: DiagnosisContext
 }
 
 export type AnalysisReply =
@@ -21,9 +27,19 @@ export type AnalysisReply =
 export default function analyzeTask(task: AnalysisTask): AnalysisReply {
   try {
     const result = analyzeMeasurementBytes(task.bytes, { fileName: task.fileName, kind: task.kind, predicted: task.predicted })
-    return { ok: true, result }
+    return { ok: true, result: task.diagnosis ? attachLowFrequencyDiagnosis(task.bytes, result, task.diagnosis) : result }
   } catch (err) {
     if (err instanceof MeasurementFileError) return { ok: false, error: err.toJSON() }
     throw err
   }
+}
+
+export interface SubwooferTask {
+  room: RoomDescription
+  counts?: number[]
+}
+
+/** The subwoofer search for a room (named task `subwooferSearch`): seconds of arithmetic kept off the request thread. */
+export function subwooferSearch(task: SubwooferTask): SubwooferAdvice {
+  return subwooferAdvice(task.room, { counts: task.counts })
 }

@@ -7,10 +7,8 @@ import { readableCase, audienceOf } from '../services/access'
 import { latestTriage, triageHistory } from '../services/triage'
 import { getThread, postMessage } from '../services/messages'
 import { listEvents } from '../data/events'
-import { AppError, notFound } from '../errors'
-import { zodFields } from '../middleware/validate'
-import { queueQuerySchema } from '../../shared/schemas/queue'
-import { queuePage } from '../data/queue'
+import { notFound } from '../errors'
+import { teamQueue } from '../services/queue'
 import { afterQuerySchema, idParamsSchema } from '../../shared/schemas/params'
 
 const afterQuery = afterQuerySchema
@@ -25,9 +23,7 @@ export function casesRouter(): Router {
       const rows = await listMyCases(user)
       return res.json({ rows, total: rows.length })
     }
-    const parsed = queueQuerySchema.safeParse(req.query)
-    if (!parsed.success) throw new AppError('Some filters need another look', { status: 400, code: 'invalid', fields: zodFields(parsed.error.issues) })
-    res.json(await queuePage(user.id, parsed.data))
+    res.json(await teamQueue(user, req.query))
   })
   router.post('/', requireRole('listener'), validate(createCaseSchema), async (req, res) => res.status(201).json(await createCase(currentUser(req), res.locals.body)))
   router.get('/:id', requireSignedIn, id, async (req, res) => res.json(await readableCase(currentUser(req), String(req.params.id))))

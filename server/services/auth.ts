@@ -1,20 +1,32 @@
 import bcrypt from 'bcryptjs'
+import { randomBytes } from 'node:crypto'
 import { findUserByEmail, findUserById, insertUser, toPublicUser, updateUser } from '../data/users'
 import { AppError, conflict } from '../errors'
-import type { CreateUserInput, Preferences, RegisterInput, User } from '../../shared/schemas/auth'
+import type { Preferences, RegisterInput, User } from '../../shared/schemas/auth'
 
 /** bcrypt cost factor: 12 rounds in production (OWASP Password Storage Cheat Sheet: at least 10). */
 export const bcryptRounds = () => (process.env.NODE_ENV === 'production' ? 12 : 10)
 
 export const hashPassword = (password: string) => bcrypt.hash(password, bcryptRounds())
 
-// A hash of a random string, compared against when the e-mail is unknown so both paths take the same time.
-const decoyHash = bcrypt.hashSync('roomwright-decoy-password', 10)
+// A hash of a random string, compared against when the e-mail is unknown (or the account has no password yet)
+// so both paths cost one bcrypt comparison at the SAME cost factor as real hashes: a decoy made with a
+// cheaper factor answered unknown e-mails about 3.6 times faster in production and told who has an account.
+// Made on first use with the cost factor in force, without blocking the event loop.
+const decoys = new Map<number, Promise<string>>()
+export function decoyHash(rounds = bcryptRounds()): Promise<string> {
+  let d = decoys.get(rounds)
+  if (!d) {
+    d = bcrypt.hash(randomBytes(24).toString('base64url'), rounds)
+    decoys.set(rounds, d)
+  }
+  return d
+}
 
-/** Checks an e-mail and password; null when either is wrong or the account is switched off. */
+/** Checks an e-mail and password; null when either is wrong or the account is switched off. Same cost on every path. */
 export async function verifyCredentials(email: string, password: string): Promise<User | null> {
   const user = await findUserByEmail(email)
-  const ok = await bcrypt.compare(password, user?.passwordHash ?? decoyHash)
+  const ok = await bcrypt.compare(password, user?.passwordHash ?? (await decoyHash()))
   if (!user || !ok || !user.active || !user.passwordHash) return null
   return toPublicUser(user)
 }
@@ -24,11 +36,6 @@ export async function registerListener(input: RegisterInput): Promise<User> {
   return toPublicUser(await insertUser({ email: input.email, name: input.name, role: 'listener', passwordHash: await hashPassword(input.password) }))
 }
 
-/** Supervisors create advisor and supervisor accounts. */
-export async function createStaffUser(input: CreateUserInput): Promise<User> {
-  if (await findUserByEmail(input.email)) throw conflict('An account with that e-mail already exists', 'email_taken')
-  return toPublicUser(await insertUser({ email: input.email, name: input.name, role: input.role, passwordHash: await hashPassword(input.password) }))
-}
 
 /** The user a session points at, or null when it is gone or switched off (the session then ends). */
 export async function sessionUser(id: string): Promise<User | null> {

@@ -1,9 +1,8 @@
 import type { Transaction } from 'sequelize'
-import { QueryTypes } from 'sequelize'
-import { db } from '../db/sequelize'
 import { findCase, setAssignee, touchAfterMessage, updateStatus } from '../data/cases'
 import { insertEvent } from '../data/events'
-import { insertMessage, listMessages, type MessageRow } from '../data/messages'
+import { attachFilesToMessage, insertMessage, listMessages } from '../data/messages'
+import type { MessageModel } from '../db/models'
 import { findUserById } from '../data/users'
 import { withTransaction } from '../db/transaction'
 import { badRequest, conflict, forbidden, notFound } from '../errors'
@@ -14,16 +13,16 @@ import { audienceOf, isStaff, readableCase } from './access'
 import { publishCase, publishQueue } from './live'
 import { notifyListener } from './notify'
 
-export const toMessage = (m: MessageRow): CaseMessage => ({
+export const toMessage = (m: MessageModel): CaseMessage => ({
   id: m.id,
-  caseId: m.case_id,
-  author: m.author_id ? { id: m.author_id, name: m.author_name ?? '', role: m.author_role ?? '' } : null,
+  caseId: m.caseId,
+  author: m.authorId ? { id: m.authorId, name: m.author?.name ?? '', role: m.author?.role ?? '' } : null,
   body: m.body,
   html: renderMarkdownSafe(m.body),
   internal: m.internal,
   source: m.source,
-  createdAt: new Date(m.created_at).toISOString(),
-  fileIds: m.file_ids ?? [],
+  createdAt: m.createdAt.toISOString(),
+  fileIds: (m.files ?? []).map((f) => f.id),
 })
 
 /** The thread; internal notes only for advisors and supervisors, whatever the caller asks for. */
@@ -42,11 +41,7 @@ export async function getMessage(user: User, caseId: string, messageId: string):
 /** Links the poster's own unattached uploads on this case to their message (what the listener then sees follows from it: ../data/visibility.ts). */
 async function attachFiles(caseId: string, messageId: string, uploaderId: string, fileIds: string[], t: Transaction) {
   if (!fileIds.length) return
-  const rows = await db().query<{ id: string }>(
-    'UPDATE files SET message_id = $3 WHERE case_id = $1 AND id = ANY($2::uuid[]) AND message_id IS NULL AND uploader_id = $4 RETURNING id',
-    { bind: [caseId, [...new Set(fileIds)], messageId, uploaderId], type: QueryTypes.SELECT, transaction: t },
-  )
-  if (rows.length !== new Set(fileIds).size) throw badRequest('Attach only files you uploaded to this case', [{ path: 'fileIds', message: 'unknown, not yours or already attached file' }])
+  if ((await attachFilesToMessage(caseId, messageId, uploaderId, [...new Set(fileIds)], t)) !== new Set(fileIds).size) throw badRequest('Attach only files you uploaded to this case', [{ path: 'fileIds', message: 'unknown, not yours or already attached file' }])
 }
 
 /** A status move the thread makes by itself (an advisor's question, a listener's answer); a no-op when the case moved meanwhile. */

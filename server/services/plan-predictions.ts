@@ -37,7 +37,7 @@ export function planPreview(room: PlanRoom, body: PlanBody): PlanPreview {
   return engine(() => {
     const predictions = predictPlan(room, body)
     const today = computeRoomAnalysis(applyPlan(room, body, []))
-    const setupOnly = [...(body.seat ? ['seat'] : []), ...(body.speakers.length ? ['speakers'] : [])]
+    const setupOnly = [...(body.seat ? ['seat'] : []), ...(body.speakers.length ? ['speakers'] : []), ...(body.subwoofers.length ? ['subwoofers'] : [])]
     const setupRoom = setupOnly.length ? computeRoomAnalysis(applyPlan(room, body, setupOnly)) : today
     return { predictions, snapTargets: snapTargets(room, setupRoom), suggestions: setupSuggestions(room, today) }
   })

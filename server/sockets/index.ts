@@ -67,17 +67,21 @@ export async function attachSockets(http: HttpServer, sessionMiddleware: Request
   server.engine.use(sessionMiddleware)
 
   server.use(async (socket, next) => {
-    const req = socket.request as IncomingMessage & { session?: { passport?: { user?: string } } }
+    const req = socket.request as IncomingMessage & { session?: { passport?: { user?: string } }; sessionID?: string }
     const id = req.session?.passport?.user
     const user = id ? await sessionUser(id).catch(() => null) : null
     if (!user) return next(new Error('signed_out'))
     socket.data.user = user
+    socket.data.sid = req.sessionID
     next()
   })
 
   server.on('connection', (socket) => {
     const user = socket.data.user as User
+    // user:<id> reaches every socket of an account, session:<sid> those of one sign-in (so ending
+    // some sessions of an account, e.g. on a password change, disconnects exactly their sockets).
     socket.join(`user:${user.id}`)
+    if (socket.data.sid) socket.join(`session:${socket.data.sid}`)
     if (isStaff(user)) socket.join('queue')
 
     socket.on('case.join', async (msg: { caseId?: string; afterSeq?: number }, ack?: Ack) => {

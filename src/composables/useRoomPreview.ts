@@ -15,7 +15,7 @@ export interface PlanReflectionPair {
  * is invalid; the last good analysis then stays on screen, marked stale.
  * The plan's reflection points come from the engine at once, on every change, so dragging stays live.
  */
-export function useRoomPreview(source: () => Room | null, opts: { delayMs?: number } = {}) {
+export function useRoomPreview(source: () => Room | null, opts: { delayMs?: number; units?: () => 'metric' | 'imperial' } = {}) {
   const delayMs = opts.delayMs ?? 100
   const analysis = shallowRef<RoomAnalysis | null>(null)
   const analysedRoom = shallowRef<Room | null>(null)
@@ -27,7 +27,7 @@ export function useRoomPreview(source: () => Room | null, opts: { delayMs?: numb
   function compute(room: Room): void {
     const started = performance.now()
     try {
-      analysis.value = computeRoomAnalysis(room)
+      analysis.value = computeRoomAnalysis(room, { units: opts.units?.() ?? 'metric' })
       analysedRoom.value = room
       engineError.value = null
     } catch (error) {

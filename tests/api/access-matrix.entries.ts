@@ -30,8 +30,10 @@ export interface World {
   noteFileId: string
   /** its distinctive file name, which no listener may ever be shown */
   noteFileName: string
-  /** a reply snippet of the team */
+  /** a reply snippet of the team (made by the advisor) */
   snippetId: string
+  /** the advisor's personal snippet */
+  personalSnippetId: string
   /** a saved filter of the advisor */
   filterId: string
   /** the owner's credentials (for login scenarios) */
@@ -82,16 +84,22 @@ export const routeEntries: Record<string, Scenario[]> = {
   ],
   'POST /api/auth/register': [sc(at(() => '/api/auth/register', { fresh: 'session', body: () => ({ email: `matrix-${tag()}@example.test`, password: 'a-long-enough-password', name: 'New Listener' }) }), all(201))],
   'POST /api/auth/logout': [sc(at(() => '/api/auth/logout', { fresh: 'session' }), all(204))],
+  'POST /api/auth/password': [sc(at(() => '/api/auth/password', { note: 'a wrong current password', body: () => ({ currentPassword: 'not-my-password-77', newPassword: 'lantern-orchard-basalt-9' }) }), E(401, 400, 400, 400, 400))],
+  'POST /api/auth/password-reset/request': [
+    sc(at(() => '/api/auth/password-reset/request', { note: 'an address with no account', body: () => ({ email: `nobody-${tag()}@example.test` }) }), all(202)),
+    sc(at(() => '/api/auth/password-reset/request', { note: "the owner's address", body: (w) => ({ email: w.owner.email }) }), all(202)),
+  ],
+  'POST /api/auth/password-reset': [sc(at(() => '/api/auth/password-reset', { note: 'a link that was never sent', body: () => ({ token: 'Q'.repeat(43), password: 'lantern-orchard-basalt-9' }) }), all(410))],
   'GET /api/auth/me': [sc(at(() => '/api/auth/me'), E(401, 200, 200, 200, 200))],
   'GET /api/auth/preferences': [sc(at(() => '/api/auth/preferences'), E(401, 200, 200, 200, 200))],
   'PATCH /api/auth/preferences': [sc(at(() => '/api/auth/preferences', { body: () => ({ units: 'metric' }) }), E(401, 200, 200, 200, 200))],
 
   'GET /api/users': [sc(at(() => '/api/users'), E(401, 403, 403, 200, 200))],
-  'POST /api/users': [sc(at(() => '/api/users', { body: () => ({ email: `staff-${tag()}@example.test`, password: 'a-long-enough-password', name: 'New Advisor', role: 'advisor' }) }), E(401, 403, 403, 403, 201))],
 
   'GET /api/rooms': [sc(at(() => '/api/rooms'), E(401, 200, 200, 403, 403))],
   'POST /api/rooms': [sc(at(() => '/api/rooms', { body: room }), E(401, 201, 201, 403, 403))],
   'POST /api/rooms/preview': [sc(at(() => '/api/rooms/preview', { body: room }), E(401, 200, 200, 200, 200))],
+  'POST /api/rooms/subwoofers': [sc(at(() => '/api/rooms/subwoofers', { body: () => ({ room: room(), counts: [1] }) }), E(401, 200, 200, 200, 200))],
   'GET /api/rooms/:id': [
     sc(at((w) => `/api/rooms/${w.roomId}`), E(401, 200, 404, 200, 200)),
     sc(at((w) => `/api/rooms/${w.draftRoomId}`, { note: 'room of a draft only' }), E(401, 200, 404, 404, 404)),
@@ -152,9 +160,20 @@ export const routeEntries: Record<string, Scenario[]> = {
     sc(at((w) => `/api/snippets/for-case/${w.caseId}`), E(401, 403, 403, 200, 200)),
     sc(at((w) => `/api/snippets/for-case/${w.draftId}`, { note: 'a draft' }), E(401, 403, 403, 404, 404)),
   ],
-  'POST /api/snippets': [sc(at(() => '/api/snippets', { body: () => ({ title: `Matrix snippet ${tag()}`, body: 'Your first axial mode is {{room.firstAxialHz}}.' }) }), E(401, 403, 403, 201, 201))],
-  'PUT /api/snippets/:id': [sc(at((w) => `/api/snippets/${w.snippetId}`, { body: () => ({ title: `Matrix snippet ${tag()}`, body: 'Edited body' }) }), E(401, 403, 403, 200, 200))],
-  'DELETE /api/snippets/:id': [sc(at((w) => `/api/snippets/${w.snippetId}`, { fresh: 'world' }), E(401, 403, 403, 204, 204))],
+  'POST /api/snippets': [
+    sc(at(() => '/api/snippets', { body: () => ({ title: `Matrix snippet ${tag()}`, body: 'Your first axial mode is {{room.firstAxialHz}}.' }) }), E(401, 403, 403, 201, 201)),
+    sc(at(() => '/api/snippets', { note: 'a team snippet', body: () => ({ title: `Matrix team snippet ${tag()}`, body: 'Shared words', scope: 'team' }) }), E(401, 403, 403, 201, 201)),
+  ],
+  'PUT /api/snippets/:id': [
+    sc(at((w) => `/api/snippets/${w.snippetId}`, { note: "the team's snippet (audited)", body: () => ({ title: `Matrix snippet ${tag()}`, body: 'Edited body' }) }), E(401, 403, 403, 200, 200)),
+    sc(at((w) => `/api/snippets/${w.personalSnippetId}`, { note: "the advisor's own snippet", body: () => ({ title: `Matrix own snippet ${tag()}`, body: 'Edited body' }) }), E(401, 403, 403, 200, 404)),
+    sc(at(() => `/api/snippets/${randomUUID()}`, { note: 'an unknown snippet', body: () => ({ title: `Matrix snippet ${tag()}`, body: 'Edited body' }) }), E(401, 403, 403, 404, 404)),
+  ],
+  'DELETE /api/snippets/:id': [
+    sc(at((w) => `/api/snippets/${w.snippetId}`, { note: "the team's snippet (audited)", fresh: 'world' }), E(401, 403, 403, 204, 204)),
+    sc(at((w) => `/api/snippets/${w.personalSnippetId}`, { note: "the advisor's own snippet", fresh: 'world' }), E(401, 403, 403, 204, 404)),
+    sc(at(() => `/api/snippets/${randomUUID()}`, { note: 'an unknown snippet' }), E(401, 403, 403, 404, 404)),
+  ],
 
   'GET /api/saved-filters': [sc(at(() => '/api/saved-filters'), E(401, 403, 403, 200, 200))],
   'POST /api/saved-filters': [sc(at(() => '/api/saved-filters', { body: () => ({ name: `Mine ${tag()}`, query: { scope: 'mine' } }) }), E(401, 403, 403, 201, 201))],
@@ -175,6 +194,7 @@ export const routeEntries: Record<string, Scenario[]> = {
   'POST /api/plans/preview': [sc(at(() => '/api/plans/preview', { note: 'empty body: staff reach validation', body: () => ({}) }), E(401, 403, 403, 400, 400))],
 
   'GET /api/team/members': [sc(at(() => '/api/team/members'), E(401, 403, 403, 403, 200))],
+  'GET /api/team/listeners': [sc(at(() => '/api/team/listeners?search=matrix'), E(401, 403, 403, 403, 200))],
   'POST /api/team/members/:id/deactivate': [sc(at(() => `/api/team/members/${randomUUID()}/deactivate`, { note: 'an unknown member' }), E(401, 403, 403, 403, 404))],
   'POST /api/team/members/:id/reactivate': [sc(at(() => `/api/team/members/${randomUUID()}/reactivate`, { note: 'an unknown member' }), E(401, 403, 403, 403, 404))],
   'PUT /api/team/members/:id/role': [sc(at(() => `/api/team/members/${randomUUID()}/role`, { note: 'an unknown member', body: () => ({ role: 'advisor' }) }), E(401, 403, 403, 403, 404))],

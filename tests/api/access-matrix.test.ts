@@ -60,12 +60,13 @@ async function makeWorld(): Promise<World> {
   const noteFileName = `note-attachment-${c.id.slice(0, 8)}.png`
   const noteFile = (await callers.advisor.agent.post(`/api/cases/${c.id}/files`).set('X-CSRF-Token', callers.advisor.csrf).attach('file', PHOTO, noteFileName).expect(201)).body
   await post(callers.advisor, `/api/cases/${c.id}/messages`, { body: 'Team only: compare with the 41 Hz photo', internal: true, fileIds: [noteFile.id] }, 201)
-  const snippet = (await post(callers.advisor, '/api/snippets', { title: `World snippet ${c.id.slice(0, 8)}`, body: 'Hello {{listener.name}}' }, 201)).body
+  const snippet = (await post(callers.advisor, '/api/snippets', { title: `World snippet ${c.id.slice(0, 8)}`, body: 'Hello {{listener.name}}', scope: 'team' }, 201)).body
+  const personal = (await post(callers.advisor, '/api/snippets', { title: `World own snippet ${c.id.slice(0, 8)}`, body: 'My own words, {{listener.name}}' }, 201)).body
   const filter = (await post(callers.advisor, '/api/saved-filters', { name: `World ${c.id.slice(0, 8)}`, query: { scope: 'unassigned' } }, 201)).body
   const [{ reply_token }] = await db().query<{ reply_token: string }>('SELECT reply_token FROM cases WHERE id = $1', { bind: [c.id], type: QueryTypes.SELECT })
   return {
     roomId: r.id, draftRoomId: dr.id, caseId: c.id, draftId: d.id, photoId: photo.id, measurementId: measurement.id, noteFileId: noteFile.id, noteFileName,
-    snippetId: snippet.id, filterId: filter.id, owner: { email: users.owner.email, password: users.owner.password }, replyToken: reply_token,
+    snippetId: snippet.id, personalSnippetId: personal.id, filterId: filter.id, owner: { email: users.owner.email, password: users.owner.password }, replyToken: reply_token,
   }
 }
 
