@@ -9,9 +9,10 @@ import { getThread, postMessage } from '../services/messages'
 import { listEvents } from '../data/events'
 import { notFound } from '../errors'
 import { teamQueue } from '../services/queue'
-import { z } from 'zod'
+import { afterQuerySchema, idParamsSchema } from '../../shared/schemas/params'
 
-const afterQuery = z.object({ after: z.coerce.number().int().min(0).optional() })
+const afterQuery = afterQuerySchema
+const id = validate(idParamsSchema, 'params')
 
 export function casesRouter(): Router {
   const router = Router()
@@ -25,25 +26,25 @@ export function casesRouter(): Router {
     res.json(await teamQueue(user, req.query))
   })
   router.post('/', requireRole('listener'), validate(createCaseSchema), async (req, res) => res.status(201).json(await createCase(currentUser(req), res.locals.body)))
-  router.get('/:id', requireSignedIn, async (req, res) => res.json(await readableCase(currentUser(req), String(req.params.id))))
-  router.patch('/:id', requireSignedIn, validate(updateCaseSchema), async (req, res) => res.json(await updateCase(currentUser(req), String(req.params.id), res.locals.body)))
-  router.get('/:id/triage', requireSignedIn, async (req, res) => {
+  router.get('/:id', requireSignedIn, id, async (req, res) => res.json(await readableCase(currentUser(req), String(req.params.id))))
+  router.patch('/:id', requireSignedIn, id, validate(updateCaseSchema), async (req, res) => res.json(await updateCase(currentUser(req), String(req.params.id), res.locals.body)))
+  router.get('/:id/triage', requireSignedIn, id, async (req, res) => {
     await readableCase(currentUser(req), String(req.params.id))
     const triage = await latestTriage(String(req.params.id))
     if (!triage) throw notFound('A triage for this case (it is computed when the case is sent)')
     res.json(triage)
   })
-  router.get('/:id/triage/history', requireSignedIn, async (req, res) => {
+  router.get('/:id/triage/history', requireSignedIn, id, async (req, res) => {
     await readableCase(currentUser(req), String(req.params.id))
     res.json({ history: await triageHistory(String(req.params.id)) })
   })
-  router.get('/:id/events', requireSignedIn, validate(afterQuery, 'query'), async (req, res) => {
+  router.get('/:id/events', requireSignedIn, id, validate(afterQuery, 'query'), async (req, res) => {
     const user = currentUser(req)
     await readableCase(user, String(req.params.id))
     res.json({ events: await listEvents(String(req.params.id), { afterId: res.locals.query.after, audience: audienceOf(user) }) })
   })
-  router.get('/:id/messages', requireSignedIn, async (req, res) => res.json({ messages: await getThread(currentUser(req), String(req.params.id)) }))
-  router.post('/:id/messages', requireSignedIn, validate(messageSchema), async (req, res) =>
+  router.get('/:id/messages', requireSignedIn, id, async (req, res) => res.json({ messages: await getThread(currentUser(req), String(req.params.id)) }))
+  router.post('/:id/messages', requireSignedIn, id, validate(messageSchema), async (req, res) =>
     res.status(201).json(await postMessage(currentUser(req), String(req.params.id), res.locals.body)))
   return router
 }

@@ -25,7 +25,7 @@ const fakeSmtpOnly: RequestHandler = (_req, _res, next) => next(config().FAKE_SM
 
 const mailboxQuery = z.object({
   limit: z.coerce.number().int().min(1).max(200).default(50),
-  before: z.coerce.number().int().positive().optional(),
+  before: z.coerce.number().int().positive().max(Number.MAX_SAFE_INTEGER).optional(),
   to: z.string().trim().email().optional(),
 })
 

@@ -1,5 +1,5 @@
 import { Router } from 'express'
-import { z } from 'zod'
+import { idParamsSchema, revisionQuerySchema } from '../../shared/schemas/params'
 import { requireRole, requireSignedIn, currentUser } from '../middleware/guards'
 import { validate } from '../middleware/validate'
 import { roomSchema } from '../../shared/schemas/room'
@@ -7,7 +7,7 @@ import { createRoom, getRoom, listMyRooms, previewRoom, saveRoomRevision } from 
 import { searchRoomSubwoofers } from '../services/subwoofers'
 import { subwooferSearchRequestSchema } from '../../shared/schemas/subwoofers'
 
-const revisionQuery = z.object({ revision: z.coerce.number().int().positive().optional() })
+const id = validate(idParamsSchema, 'params')
 
 export function roomsRouter(): Router {
   const router = Router()
@@ -16,9 +16,9 @@ export function roomsRouter(): Router {
   router.post('/preview', requireSignedIn, validate(roomSchema), async (req, res) => res.json(await previewRoom(res.locals.body, currentUser(req).id)))
   router.post('/subwoofers', requireSignedIn, validate(subwooferSearchRequestSchema), async (_req, res) =>
     res.json(await searchRoomSubwoofers(res.locals.body.room, res.locals.body.counts)))
-  router.get('/:id', requireSignedIn, validate(revisionQuery, 'query'), async (req, res) =>
+  router.get('/:id', requireSignedIn, id, validate(revisionQuerySchema, 'query'), async (req, res) =>
     res.json(await getRoom(currentUser(req), String(req.params.id), res.locals.query.revision)))
-  router.put('/:id', requireRole('listener'), validate(roomSchema), async (req, res) =>
+  router.put('/:id', requireRole('listener'), id, validate(roomSchema), async (req, res) =>
     res.json(await saveRoomRevision(currentUser(req), String(req.params.id), res.locals.body)))
   return router
 }
