@@ -9,7 +9,7 @@ export interface Figure { name: string; value: number; unit: string; target?: st
 // Bulk loads of 10 000 cases take longer than a request may.
 process.env.DB_STATEMENT_TIMEOUT_MS ??= '300000'
 
-const scripts = ['./engine', './signal', './queue', './queue-metrics', './sockets', './load']
+const scripts = ['./engine', './engine-worst', './signal', './queue', './queue-metrics', './sockets', './load']
 
 const rows: (Figure & { script: string })[] = []
 for (const s of scripts) {

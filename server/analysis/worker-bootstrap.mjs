@@ -5,3 +5,4 @@ import { tsImport } from 'tsx/esm/api'
 const worker = await tsImport('./worker.ts', import.meta.url)
 
 export default worker.default
+export const engine = worker.engine

@@ -11,7 +11,7 @@ export function roomsRouter(): Router {
   const router = Router()
   router.get('/', requireRole('listener'), async (req, res) => res.json({ rooms: await listMyRooms(currentUser(req)) }))
   router.post('/', requireRole('listener'), validate(roomSchema), async (req, res) => res.status(201).json(await createRoom(currentUser(req), res.locals.body)))
-  router.post('/preview', requireSignedIn, validate(roomSchema), (_req, res) => res.json(previewRoom(res.locals.body)))
+  router.post('/preview', requireSignedIn, validate(roomSchema), async (_req, res) => res.type('json').send(await previewRoom(res.locals.body)))
   router.get('/:id', requireSignedIn, validate(revisionQuery, 'query'), async (req, res) =>
     res.json(await getRoom(currentUser(req), String(req.params.id), res.locals.query.revision)))
   router.put('/:id', requireRole('listener'), validate(roomSchema), async (req, res) =>

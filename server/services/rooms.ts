@@ -7,7 +7,7 @@ import { materialIds } from '../../shared/acoustics'
 import type { Room, RoomRecord } from '../../shared/schemas/room'
 import type { User } from '../../shared/schemas/auth'
 import { readableRoom } from './access'
-import { analyseRoom, computeAndStoreTriage } from './triage'
+import { analyseRoomOffThread, analyseRoomOffThreadJson, assertWithinEngineLimits, storeTriage } from './triage'
 import { publishCase, publishQueue } from './live'
 
 /** Material ids must come from the engine's materials table (field paths in the 400). */
@@ -22,6 +22,7 @@ export function checkMaterials(room: Room) {
 
 export async function createRoom(user: User, room: Room): Promise<RoomRecord> {
   checkMaterials(room)
+  assertWithinEngineLimits(room)
   return insertRoom(user.id, room)
 }
 
@@ -33,12 +34,14 @@ export async function getRoom(user: User, id: string, revision?: number): Promis
 
 /**
  * Saving a room makes a new revision (old ones stay readable). Every open, submitted case on the room
- * moves to the new revision and gets a fresh triage; a draft just follows the room.
+ * moves to the new revision and gets a fresh triage; a draft just follows the room. The engine runs
+ * first, in the worker pool; the transaction only writes.
  */
 export async function saveRoomRevision(user: User, id: string, room: Room): Promise<RoomRecord> {
   checkMaterials(room)
   const existing = await findRoom(id)
   if (!existing || existing.ownerId !== user.id) throw notFound('That room')
+  const prepared = { roomId: id, revision: null, analysis: await analyseRoomOffThread(room) }
   const touched: string[] = []
   const saved = await withTransaction(async (t, afterCommit) => {
     const saved = await addRoomRevision(id, room, user.id, t)
@@ -46,7 +49,7 @@ export async function saveRoomRevision(user: User, id: string, room: Room): Prom
       await updateCaseFields(c.id, { roomRevision: saved.revision }, t)
       if (c.status !== 'draft') {
         await insertEvent({ caseId: c.id, actorId: user.id, kind: 'room-revised', data: { revision: saved.revision } }, t)
-        await computeAndStoreTriage(c.id, t)
+        await storeTriage(c.id, prepared, t)
         touched.push(c.id)
       }
     }
@@ -56,7 +59,8 @@ export async function saveRoomRevision(user: User, id: string, room: Room): Prom
   return saved
 }
 
-export function previewRoom(room: Room) {
+/** The engine's analysis of an unsaved room as JSON text, computed and serialised in the worker pool. */
+export async function previewRoom(room: Room): Promise<string> {
   checkMaterials(room)
-  return analyseRoom(room)
+  return analyseRoomOffThreadJson(room)
 }
