@@ -9,7 +9,10 @@ export interface Figure { name: string; value: number; unit: string; target?: st
 // Bulk loads of 10 000 cases take longer than a request may.
 process.env.DB_STATEMENT_TIMEOUT_MS ??= '300000'
 
-const scripts = ['./engine', './engine-worst', './signal', './queue', './queue-metrics', './sockets', './load']
+const all = ['./engine', './engine-worst', './signal', './lowfreq', './queue', './queue-metrics', './sockets', './load']
+// BENCH_ONLY=queue,sockets runs a part of the bench (names as in the list above), e.g. while iterating.
+const only = process.env.BENCH_ONLY?.split(',').map((x) => `./${x.trim()}`)
+const scripts = only ? all.filter((s) => only.includes(s)) : all
 
 const rows: (Figure & { script: string })[] = []
 for (const s of scripts) {
@@ -33,5 +36,16 @@ console.log(`${'-'.repeat(w)}  ${'-'.repeat(12)}  --------  ------`)
 for (const r of rows) {
   const v = Number.isFinite(r.value) ? (Math.abs(r.value) >= 100 ? r.value.toFixed(0) : r.value.toFixed(2)) : '—'
   console.log(`${`${r.script}: ${r.name}`.padEnd(w)}  ${v.padStart(12)}  ${r.unit.padEnd(8)}  ${r.target ?? ''}`)
+}
+// The ratios again, as lines of their own under the table, each beside the absolute figures it divides.
+const ratios = rows.filter((r) => r.name.startsWith('RATIO '))
+if (ratios.length) {
+  console.log('\nRatios (throughput against the bare Express JSON route, same load settings, same run)')
+  const abs = (prefix: string) => rows.filter((r) => r.script === 'queue' && r.name.startsWith(prefix) && (r.unit === 'req/s' || r.name.includes('p95'))).map((r) => `${r.unit === 'ms' ? 'p95' : 'rps'} ${r.value.toFixed(0)}`).join(', ')
+  const of: Record<string, string> = { 'queue first page': 'queue first page', 'queue search': 'queue search', 'signed-in /api/auth/me': 'signed-in /api/auth/me' }
+  for (const r of ratios) {
+    const what = r.name.slice(6).replace(' / bare route', '')
+    console.log(`  ${what} / bare: ${r.value.toFixed(1)} %${r.target ? ` (target ${r.target})` : ''} — ${abs(of[what] ?? what)}; bare ${abs('bare Express JSON route throughput')}`)
+  }
 }
 process.exit(0)

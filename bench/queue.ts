@@ -1,9 +1,16 @@
 /**
- * Queue bench: 10 000 cases and 100 000 messages seeded with generate_series, then GET /api/cases
- * (the advisor's queue: first page by priority, and a full-text search) with 32 concurrent clients.
- * Run standalone: `npx tsx bench/queue.ts` (QUEUE_SECONDS, default 10; QUEUE_CASES, default 10 000).
+ * Queue bench: 10 000 cases and 100 000 messages seeded with generate_series, then, with 32 concurrent
+ * clients each: a bare Express JSON route in the same process (the yardstick), the advisor's default
+ * queue first page, a full-text search, a signed-in GET /api/auth/me, and the bare route again. The
+ * ratio lines divide by the mean of the two bare runs, so a machine that is busier in one part of the
+ * run than another skews them less.
+ * Run standalone: `npx tsx bench/queue.ts` (QUEUE_SECONDS, default 10; QUEUE_CASES, default 10 000;
+ * QUEUE_CONNECTIONS, default 32).
  */
 import { pathToFileURL } from 'node:url'
+import { createServer } from 'node:http'
+import type { AddressInfo } from 'node:net'
+import express from 'express'
 import { benchDatabase, benchServer } from './lib/db'
 import { cannon } from './lib/cannon'
 import { benchUser } from './lib/people'
@@ -12,6 +19,18 @@ import type { Figure } from './index'
 const CASES = Number(process.env.QUEUE_CASES ?? 10_000)
 const MESSAGES_PER_CASE = 10
 const SECONDS = Number(process.env.QUEUE_SECONDS ?? 10)
+const CONNECTIONS = Number(process.env.QUEUE_CONNECTIONS ?? 32)
+
+/** The yardstick: Express with one JSON route and nothing else (no session, no helmet, no database). */
+async function bareServer(): Promise<{ url: string; close: () => Promise<void> }> {
+  const app = express()
+  app.disable('x-powered-by')
+  app.get('/bare', (_req, res) => res.json({ ok: true, at: Date.now() }))
+  const http = createServer(app)
+  await new Promise<void>((r) => http.listen(0, '127.0.0.1', () => r()))
+  const { port } = http.address() as AddressInfo
+  return { url: `http://127.0.0.1:${port}`, close: () => new Promise((r) => { http.closeAllConnections(); http.close(() => r()) }) }
+}
 
 const ROOM = { name: 'Bench room', length: 5.6, width: 3.9, height: 2.45, celsius: 20, speakers: [{ label: 'L', x: 0.8, y: 1, z: 1 }, { label: 'R', x: 0.8, y: 2.9, z: 1 }], subwoofers: [], seats: [{ label: 'Seat', x: 3.4, y: 1.95, z: 1.1 }], openings: [], surfaces: { front: 'gypsum-on-studs', back: 'gypsum-on-studs', left: 'gypsum-on-studs', right: 'gypsum-on-studs', floor: 'wood-floor-on-joists', ceiling: 'plasterboard-ceiling-on-battens' }, furnishings: [], treatments: [], notes: '' }
 
@@ -40,7 +59,8 @@ export async function seedQueue(cases = CASES): Promise<void> {
            'The ' || ($2::text[])[1 + (i * 7) % 15] || ' and the ' || ($2::text[])[1 + (i * 11) % 15] || ' bother me.',
            (ARRAY['submitted','in_review','waiting_on_listener','plan_sent','closed','in_review']::case_status[])[1 + i % 6],
            round((random() * 10)::numeric, 2), md5(random()::text || i) || md5(i::text),
-           now() - (i % 500) * interval '1 hour', CASE WHEN i % 3 = 0 THEN now() - (i % 97) * interval '1 hour' END,
+           -- waiting for us only while submitted or in review (the app's rule, data/cases.ts updateStatus), 0–150 h
+           now() - (i % 500) * interval '1 hour', CASE WHEN i % 6 IN (0, 1, 5) THEN now() - ((i * 37) % 151) * interval '1 hour' END,
            now() - (i % 300) * interval '1 hour', now() - (i % 500) * interval '1 hour',
            CASE WHEN i % 4 = 0 THEN ARRAY['near-square-plan'] ELSE '{}' END
       FROM generate_series(1, $1) i JOIN r ON r.n = 1 + i % (SELECT c FROM cnt)
@@ -59,22 +79,45 @@ export async function run(): Promise<Figure[]> {
   await seedQueue()
   const seedS = (Date.now() - t0) / 1000
   const server = await benchServer()
+  const bare = await bareServer()
   try {
     const advisor = await benchUser(server.url, 'advisor')
     const headers = { cookie: advisor.cookie }
-    const first = await cannon({ url: `${server.url}/api/cases?scope=all&sort=priority&page=1&pageSize=25`, connections: 32, duration: SECONDS, headers })
-    const search = await cannon({ url: `${server.url}/api/cases?scope=all&q=flutter%20echo&sort=waiting&page=2`, connections: 32, duration: SECONDS, headers })
+    const load = (url: string, h: Record<string, string> = headers) => cannon({ url, connections: CONNECTIONS, duration: SECONDS, headers: h })
+    // one short warm-up of each path (JIT, plan cache, connection pools) before anything is measured
+    for (const path of ['/api/cases', '/api/auth/me', '/api/cases?q=flutter%20echo&sort=waiting&page=2']) await cannon({ url: `${server.url}${path}`, connections: CONNECTIONS, duration: 1, headers })
+    await cannon({ url: `${bare.url}/bare`, connections: CONNECTIONS, duration: 1 })
+    const bare1 = await load(`${bare.url}/bare`, {})
+    // the advisor's default view: open work, what needs an answer first, first page (no parameters)
+    const first = await load(`${server.url}/api/cases`)
+    const search = await load(`${server.url}/api/cases?q=flutter%20echo&sort=waiting&page=2`)
+    const me = await load(`${server.url}/api/auth/me`)
+    const bare2 = await load(`${bare.url}/bare`, {})
+    const bareRps = (bare1.rps + bare2.rps) / 2
     const errs = (r: typeof first) => r.errors + r.non2xx + r.timeouts
+    const pct = (r: typeof first) => (100 * r.rps) / bareRps
+    const c = `${CONNECTIONS} clients`
     return [
       { name: `seed ${CASES} cases + ${CASES * MESSAGES_PER_CASE} messages`, value: seedS, unit: 's' },
-      { name: 'queue page p95 (32 clients)', value: first.p95, unit: 'ms', target: '< 200 ms (ours)' },
-      { name: 'queue page p50', value: first.p50, unit: 'ms' },
-      { name: 'queue page throughput', value: first.rps, unit: 'req/s' },
-      { name: 'queue page errors', value: errs(first), unit: 'count', target: '0' },
-      { name: 'queue search p95 (32 clients)', value: search.p95, unit: 'ms', target: '< 300 ms (ours)' },
+      { name: `bare Express JSON route throughput (${c}), first run`, value: bare1.rps, unit: 'req/s' },
+      { name: 'bare Express JSON route throughput, after the others', value: bare2.rps, unit: 'req/s' },
+      { name: 'bare Express JSON route p95', value: Math.max(bare1.p95, bare2.p95), unit: 'ms' },
+      { name: `queue first page (default view) p95 (${c})`, value: first.p95, unit: 'ms', target: '≤ 30 ms' },
+      { name: 'queue first page p50', value: first.p50, unit: 'ms' },
+      { name: 'queue first page throughput', value: first.rps, unit: 'req/s' },
+      { name: 'queue first page errors', value: errs(first), unit: 'count', target: '0' },
+      { name: `queue search p95 (${c})`, value: search.p95, unit: 'ms', target: '≤ 60 ms' },
+      { name: 'queue search throughput', value: search.rps, unit: 'req/s' },
       { name: 'queue search errors', value: errs(search), unit: 'count', target: '0' },
+      { name: `signed-in /api/auth/me p95 (${c})`, value: me.p95, unit: 'ms' },
+      { name: 'signed-in /api/auth/me throughput', value: me.rps, unit: 'req/s' },
+      { name: 'signed-in /api/auth/me errors', value: errs(me), unit: 'count', target: '0' },
+      { name: 'RATIO queue first page / bare route', value: pct(first), unit: '%', target: '≥ 40 %' },
+      { name: 'RATIO queue search / bare route', value: pct(search), unit: '%' },
+      { name: 'RATIO signed-in /api/auth/me / bare route', value: pct(me), unit: '%', target: '≥ 60 %' },
     ]
   } finally {
+    await bare.close()
     // the shared bench server stays up for the next bench (bench/lib/db.ts)
   }
 }

@@ -1,12 +1,12 @@
 import express, { type RequestHandler } from 'express'
 import session from 'express-session'
-import connectPgSimple from 'connect-pg-simple'
 import helmet from 'helmet'
 import pg from 'pg'
 import { existsSync } from 'node:fs'
 import { join, resolve } from 'node:path'
 import { config } from './config'
 import { configurePassport } from './auth/passport'
+import { SessionStore } from './auth/session-store'
 import { csrfProtection } from './middleware/csrf'
 import { rejectNulCharacters } from './middleware/validate'
 import { errorHandler, notFoundHandler } from './middleware/errors'
@@ -44,13 +44,13 @@ export function createApp(opts: { clientDir?: string | false } = {}): BuiltApp {
     }),
   )
 
-  const sessionPool = new pg.Pool({ connectionString: cfg.DATABASE_URL, max: 5, connectionTimeoutMillis: 3000 })
+  const sessionPool = new pg.Pool({ connectionString: cfg.DATABASE_URL, max: 8, connectionTimeoutMillis: 3000 })
   sessionPool.on('error', () => {})
-  const PgStore = connectPgSimple(session)
   const sessionMiddleware = session({
     name: 'rw.sid',
-    store: new PgStore({ pool: sessionPool, tableName: 'session', createTableIfMissing: false, pruneSessionInterval: 15 * 60 }),
+    store: new SessionStore({ pool: sessionPool, tableName: 'session', createTableIfMissing: false, pruneSessionInterval: 15 * 60 }),
     secret: cfg.SESSION_SECRET,
+    // rolling expiry (14 days after the last request); the store writes it at most every 10 minutes
     resave: false,
     saveUninitialized: false,
     rolling: true,

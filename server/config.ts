@@ -49,6 +49,9 @@ function whole(name: string, fallback: number, min: number, max: number) {
     })
 }
 
+/** The development default of the inbound webhook's secret: public (it is in this file), so never accepted in production. */
+export const DEV_INBOUND_SECRET = 'roomwright-development-inbound-secret'
+
 /**
  * Every setting Roomwright reads from the environment, each with a default or marked required,
  * validated once at start-up: a bad value stops the process with a message naming the variable.
@@ -78,7 +81,7 @@ const schema = z.object({
   MAIL_FROM: z.string().default('Roomwright <desk@roomwright.test>'),
   MAIL_REPLY_DOMAIN: z.string().default('reply.roomwright.test'),
   FAKE_SMTP: onOff('FAKE_SMTP', 'off'),
-  INBOUND_EMAIL_SECRET: z.string().min(16).default('roomwright-development-inbound-secret'),
+  INBOUND_EMAIL_SECRET: z.string().min(16, 'INBOUND_EMAIL_SECRET must be at least 16 characters').default(DEV_INBOUND_SECRET),
   JOBS: onOff('JOBS', 'on'),
   /** Failed sign-ins allowed per account in SIGN_IN_WINDOW_MINUTES (successful ones do not count). */
   SIGN_IN_FAILURES_PER_ACCOUNT: whole('SIGN_IN_FAILURES_PER_ACCOUNT', 10, 1, 1_000_000),
@@ -102,6 +105,9 @@ export function loadConfig(env: NodeJS.ProcessEnv = process.env): Config {
   const config = parsed.data
   if (config.NODE_ENV === 'production' && config.SESSION_SECRET === 'roomwright-development-session-secret') {
     throw new ConfigError('Roomwright cannot start: SESSION_SECRET must be set in production')
+  }
+  if (config.NODE_ENV === 'production' && (!env.INBOUND_EMAIL_SECRET?.trim() || config.INBOUND_EMAIL_SECRET === DEV_INBOUND_SECRET)) {
+    throw new ConfigError('Roomwright cannot start: INBOUND_EMAIL_SECRET must be set in production to a secret of your own (at least 16 characters), not missing and not the development default')
   }
   if (config.STORAGE_DRIVER === 's3' && (!config.S3_BUCKET || !config.S3_ENDPOINT)) {
     throw new ConfigError('Roomwright cannot start: STORAGE_DRIVER=s3 needs S3_ENDPOINT and S3_BUCKET')

@@ -22,7 +22,7 @@ export const engineTasks = {
   planPreview: (room: PlanRoom, body: PlanBody) => {
     const predictions = predictPlan(room, body)
     const today = computeRoomAnalysis(applyPlan(room, body, []))
-    const setupOnly = [...(body.seat ? ['seat'] : []), ...(body.speakers.length ? ['speakers'] : [])]
+    const setupOnly = [...(body.seat ? ['seat'] : []), ...(body.speakers.length ? ['speakers'] : []), ...(body.subwoofers.length ? ['subwoofers'] : [])]
     const setupRoom = setupOnly.length ? computeRoomAnalysis(applyPlan(room, body, setupOnly)) : today
     return { predictions, snapTargets: snapTargets(room, setupRoom), suggestions: setupSuggestions(room, today) }
   },

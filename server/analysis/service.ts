@@ -8,7 +8,11 @@ import type Piscina from 'piscina'
 import { MeasurementFileError } from '../../shared/signal/index'
 import type { MeasurementAnalysisResult, MeasurementKind, PredictedReflection } from '../../shared/signal/index'
 import { analysisPool } from './pool'
-import type { AnalysisReply, AnalysisTask } from './worker'
+import type { AnalysisReply, AnalysisTask, SubwooferTask } from './worker'
+import type { DiagnosisContext } from './diagnosis'
+import type { SubwooferAdvice } from '../../shared/acoustics/subwoofer-advice'
+
+export type { DiagnosisContext } from './diagnosis'
 
 export type { MeasurementAnalysisResult } from '../../shared/signal/index'
 
@@ -30,6 +34,7 @@ export interface AnalyzeFileInput {
   fileName: string
   kind?: MeasurementKind
   predicted?: PredictedReflection[]
+  diagnosis?: DiagnosisContext
 }
 
 /**
@@ -42,7 +47,7 @@ export async function analyzeMeasurementFile(
   opts: { pool?: Piscina; timeoutMs?: number } = {},
 ): Promise<MeasurementAnalysisResult> {
   const bytes = new Uint8Array(input.bytes) // own copy, so it can be moved to the worker
-  const task: AnalysisTask = { bytes, fileName: input.fileName, kind: input.kind, predicted: input.predicted }
+  const task: AnalysisTask = { bytes, fileName: input.fileName, kind: input.kind, predicted: input.predicted, diagnosis: input.diagnosis }
   const timeoutMs = opts.timeoutMs ?? ANALYSIS_TIMEOUT_MS
   let reply: AnalysisReply
   try {
@@ -59,7 +64,7 @@ export async function analyzeMeasurementFile(
 }
 
 export interface AnalysisJobDeps {
-  loadFile(fileId: string): Promise<{ bytes: Uint8Array | Buffer; fileName: string; kind?: MeasurementKind; predicted?: PredictedReflection[] }>
+  loadFile(fileId: string): Promise<{ bytes: Uint8Array | Buffer; fileName: string; kind?: MeasurementKind; predicted?: PredictedReflection[]; diagnosis?: DiagnosisContext }>
   saveResult(fileId: string, result: MeasurementAnalysisResult): Promise<void>
   /** reason: a sentence for the listener and advisor; details.code: the machine code */
   saveFailure(fileId: string, reason: string, details?: { code: string }): Promise<void>
@@ -93,4 +98,23 @@ export async function handleAnalysisJob(
   }
   await deps.saveResult(fileId, result)
   return { status: 'analysed' }
+}
+
+/** Longest a subwoofer search may run, ms (a four-subwoofer search of a typical room takes about a second). */
+export const SUBWOOFER_SEARCH_TIMEOUT_MS = 20_000
+
+/**
+ * The subwoofer search in the worker pool (never on the request thread).
+ * @throws AnalysisFailedError when the worker crashed or timed out
+ */
+export async function runSubwooferSearch(task: SubwooferTask, opts: { pool?: Piscina; timeoutMs?: number } = {}): Promise<SubwooferAdvice> {
+  const timeoutMs = opts.timeoutMs ?? SUBWOOFER_SEARCH_TIMEOUT_MS
+  try {
+    return await (opts.pool ?? analysisPool()).run(task, { name: 'subwooferSearch', signal: AbortSignal.timeout(timeoutMs) })
+  } catch (err) {
+    const e = err as { name?: string; message?: string }
+    if (e?.name === 'AbortError' || e?.name === 'TimeoutError') throw new AnalysisFailedError('analysis-timed-out', `the subwoofer search took longer than ${timeoutMs / 1000} s and was stopped`)
+    if (err instanceof Error && /RangeError/.test(err.name)) throw err
+    throw new AnalysisFailedError('analysis-crashed', `the subwoofer search failed: ${e?.message ?? String(err)}`)
+  }
 }

@@ -6,3 +6,4 @@ const worker = await tsImport('./worker.ts', import.meta.url)
 
 export default worker.default
 export const engine = worker.engine
+export const subwooferSearch = worker.subwooferSearch

@@ -6,6 +6,10 @@
  */
 import { analyzeMeasurementBytes, MeasurementFileError } from '../../shared/signal/index'
 import { runEngineTaskHere, type EngineTaskReply, type EngineTaskRequest } from './engine-tasks'
+import { subwooferAdvice } from '../../shared/acoustics/subwoofer-advice'
+import type { SubwooferAdvice } from '../../shared/acoustics/subwoofer-advice'
+import type { RoomDescription } from '../../shared/acoustics/triage'
+import { attachLowFrequencyDiagnosis, type DiagnosisContext } from './diagnosis'
 import type { MeasurementAnalysisResult, MeasurementErrorCode, MeasurementKind, PredictedReflection } from '../../shared/signal/index'
 
 export interface AnalysisTask {
@@ -13,6 +17,8 @@ export interface AnalysisTask {
   fileName: string
   kind?: MeasurementKind
   predicted?: PredictedReflection[]
+  /** the case's room, speaker and main seat: the low-frequency peaks are explained when given */
+  diagnosis?: DiagnosisContext
 }
 
 export type AnalysisReply =
@@ -23,7 +29,7 @@ export type AnalysisReply =
 export default function analyzeTask(task: AnalysisTask): AnalysisReply {
   try {
     const result = analyzeMeasurementBytes(task.bytes, { fileName: task.fileName, kind: task.kind, predicted: task.predicted })
-    return { ok: true, result }
+    return { ok: true, result: task.diagnosis ? attachLowFrequencyDiagnosis(task.bytes, result, task.diagnosis) : result }
   } catch (err) {
     if (err instanceof MeasurementFileError) return { ok: false, error: err.toJSON() }
     throw err
@@ -33,4 +39,14 @@ export default function analyzeTask(task: AnalysisTask): AnalysisReply {
 /** One engine task (room analysis, plan predictions …) by name: `pool.run(req, { name: 'engine' })`. */
 export function engine(req: EngineTaskRequest): EngineTaskReply {
   return runEngineTaskHere(req)
+}
+
+export interface SubwooferTask {
+  room: RoomDescription
+  counts?: number[]
+}
+
+/** The subwoofer search for a room (named task `subwooferSearch`): seconds of arithmetic kept off the request thread. */
+export function subwooferSearch(task: SubwooferTask): SubwooferAdvice {
+  return subwooferAdvice(task.room, { counts: task.counts })
 }

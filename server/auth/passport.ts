@@ -1,6 +1,8 @@
 import passport from 'passport'
 import { Strategy as LocalStrategy } from 'passport-local'
+import type { Request } from 'express'
 import { decoyHash, sessionUser, verifyCredentials } from '../services/auth'
+import { userReadWithSession } from './session-store'
 
 let configured = false
 export function configurePassport(): typeof passport {
@@ -13,7 +15,12 @@ export function configurePassport(): typeof passport {
     }),
   )
   passport.serializeUser((user, done) => done(null, user.id))
-  passport.deserializeUser((id: string, done) => {
+  // The session store reads the user in the same statement as the session (auth/session-store.ts);
+  // a session made during this request (sign-in) has none attached and is looked up here.
+  passport.deserializeUser((req: Request, id: string, done: (err: unknown, user?: Express.User | false) => void) => {
+    const read = userReadWithSession((req.session as { passport?: unknown } | undefined)?.passport)
+    if (read !== undefined && read?.id === id) return done(null, read)
+    if (read === null) return done(null, false)
     sessionUser(id).then((u) => done(null, u ?? false), done)
   })
   configured = true

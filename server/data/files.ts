@@ -1,48 +1,51 @@
-import { QueryTypes, type Transaction } from 'sequelize'
-import { db } from '../db/sequelize'
+import type { Transaction } from 'sequelize'
+import { models, type FileModel } from '../db/models'
+import type { Audience } from './visibility'
+import type { AnalysisStatus } from '../db/models/file'
 import type { CaseFile, FileKind } from '../../shared/schemas/case'
 
-export interface FileRow {
-  id: string; case_id: string; uploader_id: string | null; message_id: string | null; kind: FileKind; original_name: string; mime: string
-  size: string | number; storage_key: string; thumb_key: string | null; analysis_status: 'queued' | 'running' | 'done' | 'failed' | null
-  analysis: unknown; analysis_error: string | null; created_at: Date
-}
+export type { FileModel }
 
-export const toCaseFile = (r: FileRow, withResult = true): CaseFile => ({
+export const toCaseFile = (r: FileModel, withResult = true): CaseFile => ({
   id: r.id,
-  caseId: r.case_id,
+  caseId: r.caseId,
   kind: r.kind,
-  name: r.original_name,
+  name: r.originalName,
   mime: r.mime,
   size: Number(r.size),
-  createdAt: new Date(r.created_at).toISOString(),
-  uploaderId: r.uploader_id ?? '',
-  hasThumbnail: !!r.thumb_key,
-  analysis: r.analysis_status ? { status: r.analysis_status, error: r.analysis_error, ...(withResult ? { result: r.analysis ?? null } : {}) } : null,
+  createdAt: r.createdAt.toISOString(),
+  uploaderId: r.uploaderId ?? '',
+  hasThumbnail: !!r.thumbKey,
+  analysis: r.analysisStatus ? { status: r.analysisStatus, error: r.analysisError ?? null, ...(withResult ? { result: r.analysis ?? null } : {}) } : null,
 })
 
-export async function insertFile(f: { caseId: string; uploaderId: string; kind: FileKind; name: string; mime: string; size: number; storageKey: string; thumbKey: string | null; analysisStatus: 'queued' | null }, t: Transaction): Promise<FileRow> {
-  const [row] = await db().query<FileRow>(
-    `INSERT INTO files (case_id, uploader_id, kind, original_name, mime, size, storage_key, thumb_key, analysis_status)
-     VALUES ($1, $2, $3, $4, $5, $6, $7, $8, $9) RETURNING *`,
-    { bind: [f.caseId, f.uploaderId, f.kind, f.name, f.mime, f.size, f.storageKey, f.thumbKey, f.analysisStatus], type: QueryTypes.SELECT, transaction: t },
-  )
-  return row
+export async function insertFile(f: { caseId: string; uploaderId: string; kind: FileKind; name: string; mime: string; size: number; storageKey: string; thumbKey: string | null; analysisStatus: 'queued' | null }, t: Transaction): Promise<FileModel> {
+  const { name, ...rest } = f
+  return models().File.create({ ...rest, originalName: name }, { transaction: t })
 }
 
-export async function findFile(id: string): Promise<FileRow | null> {
-  const rows = await db().query<FileRow>('SELECT * FROM files WHERE id = $1', { bind: [id], type: QueryTypes.SELECT })
-  return rows[0] ?? null
+/** A file by id; with `audience`, only when that audience may see it (scope `visibleTo`, the rule of ./visibility.ts). */
+export async function findFile(id: string, audience: Audience = 'team'): Promise<FileModel | null> {
+  return models().File.scope({ method: ['visibleTo', audience] }).findOne({ where: { id } })
 }
 
-export async function listFiles(caseId: string): Promise<FileRow[]> {
-  return db().query<FileRow>('SELECT * FROM files WHERE case_id = $1 ORDER BY created_at, id', { bind: [caseId], type: QueryTypes.SELECT })
+/** The case's files as `audience` may see them, oldest first. */
+export async function listFiles(caseId: string, audience: Audience): Promise<FileModel[]> {
+  return models().File.scope({ method: ['visibleTo', audience] }).findAll({ where: { caseId }, order: [['createdAt', 'ASC'], ['id', 'ASC']] })
 }
 
-export async function setAnalysis(id: string, status: 'running' | 'done' | 'failed', result: unknown, error: string | null): Promise<FileRow | null> {
-  const rows = await db().query<FileRow>(
-    'UPDATE files SET analysis_status = $2, analysis = COALESCE($3::jsonb, analysis), analysis_error = $4 WHERE id = $1 RETURNING *',
-    { bind: [id, status, result === null ? null : JSON.stringify(result), error], type: QueryTypes.SELECT },
-  )
-  return rows[0] ?? null
+/** How many measurements and photos the case holds (they weigh in its triage score). */
+export async function countEvidence(caseId: string, t?: Transaction): Promise<{ measurements: number; photos: number }> {
+  const File = models().File
+  const [measurements, photos] = await Promise.all([
+    File.count({ where: { caseId, kind: 'measurement' }, transaction: t }),
+    File.count({ where: { caseId, kind: 'photo' }, transaction: t }),
+  ])
+  return { measurements, photos }
+}
+
+export async function setAnalysis(id: string, status: AnalysisStatus, result: unknown, error: string | null, t?: Transaction): Promise<FileModel | null> {
+  const File = models().File
+  await File.update({ analysisStatus: status, analysisError: error, ...(result === null ? {} : { analysis: result }) }, { where: { id }, transaction: t })
+  return File.findByPk(id, { transaction: t })
 }

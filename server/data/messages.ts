@@ -1,26 +1,23 @@
-import { QueryTypes, type Transaction } from 'sequelize'
-import { db } from '../db/sequelize'
-
-export interface MessageRow {
-  id: string; case_id: string; author_id: string | null; author_name: string | null; author_role: string | null
-  body: string; internal: boolean; source: 'app' | 'email'; created_at: Date; file_ids: string[] | null
-}
+import { Op, type Transaction } from 'sequelize'
+import { models, type MessageModel } from '../db/models'
+import type { Audience } from './visibility'
 
 export async function insertMessage(m: { caseId: string; authorId: string | null; body: string; internal: boolean; source: 'app' | 'email' }, t: Transaction): Promise<string> {
-  const [row] = await db().query<{ id: string }>(
-    'INSERT INTO messages (case_id, author_id, body, internal, source) VALUES ($1, $2, $3, $4, $5) RETURNING id',
-    { bind: [m.caseId, m.authorId, m.body, m.internal, m.source], type: QueryTypes.SELECT, transaction: t },
-  )
-  return row.id
+  return (await models().Message.create(m, { transaction: t })).id
 }
 
-export async function listMessages(caseId: string, includeInternal: boolean, onlyId?: string): Promise<MessageRow[]> {
-  return db().query<MessageRow>(
-    `SELECT m.id, m.case_id, m.author_id, u.name AS author_name, u.role AS author_role, m.body, m.internal, m.source, m.created_at,
-            (SELECT array_agg(f.id ORDER BY f.created_at) FROM files f WHERE f.message_id = m.id) AS file_ids
-       FROM messages m LEFT JOIN users u ON u.id = m.author_id
-      WHERE m.case_id = $1 AND ($2::boolean OR NOT m.internal) AND ($3::uuid IS NULL OR m.id = $3::uuid)
-      ORDER BY m.created_at, m.id`,
-    { bind: [caseId, includeInternal, onlyId ?? null], type: QueryTypes.SELECT },
-  )
+/** The thread as `viewer` may see it (scope `visibleTo`, the rule of ./visibility.ts), oldest first. */
+export async function listMessages(caseId: string, audience: Audience, onlyId?: string, t?: Transaction): Promise<MessageModel[]> {
+  const { Message, File } = models()
+  return Message.scope(['thread', { method: ['visibleTo', audience] }]).findAll({
+    where: { caseId, ...(onlyId ? { id: onlyId } : {}) },
+    order: [['createdAt', 'ASC'], ['id', 'ASC'], [{ model: File, as: 'files' }, 'createdAt', 'ASC']],
+    transaction: t,
+  })
+}
+
+/** Links the uploader's own unattached files of the case to a message; the number linked. */
+export async function attachFilesToMessage(caseId: string, messageId: string, uploaderId: string, fileIds: string[], t: Transaction): Promise<number> {
+  const [n] = await models().File.update({ messageId }, { where: { caseId, id: { [Op.in]: fileIds }, messageId: null, uploaderId }, transaction: t })
+  return n
 }

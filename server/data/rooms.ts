@@ -1,67 +1,57 @@
-import { QueryTypes, type Transaction } from 'sequelize'
-import { db } from '../db/sequelize'
+import type { Transaction } from 'sequelize'
+import { models, type RoomModel } from '../db/models'
+import { dbNow } from '../db/models/now'
 import type { Room, RoomRecord, RoomSummary } from '../../shared/schemas/room'
 
-type Row = { id: string; owner_id: string; current_revision: number; created_at: Date; updated_at: Date; body: Room; revisions?: number[] }
-
-const toRecord = (r: Row): RoomRecord => ({
-  id: r.id,
-  ownerId: r.owner_id,
-  revision: r.current_revision,
-  revisions: r.revisions ?? [r.current_revision],
-  room: r.body,
-  createdAt: new Date(r.created_at).toISOString(),
-  updatedAt: new Date(r.updated_at).toISOString(),
-})
-
 export async function insertRoom(ownerId: string, room: Room, t?: Transaction): Promise<RoomRecord> {
-  const [row] = await db().query<{ id: string }>(
-    'INSERT INTO rooms (owner_id, name) VALUES ($1, $2) RETURNING id',
-    { bind: [ownerId, room.name], type: QueryTypes.SELECT, transaction: t },
-  )
-  await db().query('INSERT INTO room_revisions (room_id, revision, body, created_by) VALUES ($1, 1, $2, $3)', {
-    bind: [row.id, JSON.stringify(room), ownerId],
-    transaction: t,
-  })
-  return (await findRoom(row.id, undefined, t))!
+  const { Room: Rooms, RoomRevision } = models()
+  const write = async (tx: Transaction) => {
+    const r = await Rooms.create({ ownerId, name: room.name }, { transaction: tx })
+    await RoomRevision.create({ roomId: r.id, revision: 1, body: room, createdBy: ownerId }, { transaction: tx })
+    return r.id
+  }
+  // Two rows: in the caller's transaction, or in one of its own.
+  const id = t ? await write(t) : await Rooms.sequelize!.transaction(write)
+  return (await findRoom(id, undefined, t))!
 }
 
 /** The room at `revision` (default: its current one), with the list of its revisions. */
 export async function findRoom(id: string, revision?: number, t?: Transaction): Promise<RoomRecord | null> {
-  const rows = await db().query<Row>(
-    `SELECT r.id, r.owner_id, COALESCE($2::int, r.current_revision) AS current_revision, r.created_at, r.updated_at, rr.body,
-            (SELECT array_agg(revision ORDER BY revision) FROM room_revisions WHERE room_id = r.id) AS revisions
-       FROM rooms r JOIN room_revisions rr ON rr.room_id = r.id AND rr.revision = COALESCE($2::int, r.current_revision)
-      WHERE r.id = $1`,
-    { bind: [id, revision ?? null], type: QueryTypes.SELECT, transaction: t },
-  )
-  return rows[0] ? toRecord(rows[0]) : null
+  const { Room: Rooms, RoomRevision } = models()
+  const r: RoomModel | null = await Rooms.findByPk(id, {
+    include: [{ model: RoomRevision, as: 'revisions', attributes: ['revision'] }],
+    order: [[{ model: RoomRevision, as: 'revisions' }, 'revision', 'ASC']],
+    transaction: t,
+  })
+  if (!r) return null
+  const at = revision ?? r.currentRevision
+  const rev = await RoomRevision.findOne({ where: { roomId: id, revision: at }, transaction: t })
+  if (!rev) return null
+  return {
+    id: r.id,
+    ownerId: r.ownerId,
+    revision: at,
+    revisions: (r.revisions ?? []).map((x) => x.revision),
+    room: rev.body,
+    createdAt: r.createdAt.toISOString(),
+    updatedAt: r.updatedAt.toISOString(),
+  }
 }
 
 /** Stores a new revision; the row lock keeps two concurrent saves from taking the same number. */
 export async function addRoomRevision(id: string, room: Room, userId: string, t: Transaction): Promise<RoomRecord> {
-  const [locked] = await db().query<{ current_revision: number }>('SELECT current_revision FROM rooms WHERE id = $1 FOR UPDATE', {
-    bind: [id], type: QueryTypes.SELECT, transaction: t,
-  })
-  const next = locked.current_revision + 1
-  await db().query('INSERT INTO room_revisions (room_id, revision, body, created_by) VALUES ($1, $2, $3, $4)', {
-    bind: [id, next, JSON.stringify(room), userId], transaction: t,
-  })
-  await db().query('UPDATE rooms SET current_revision = $2, name = $3, updated_at = now() WHERE id = $1', {
-    bind: [id, next, room.name], transaction: t,
-  })
+  const { Room: Rooms, RoomRevision } = models()
+  const locked = await Rooms.findByPk(id, { attributes: ['id', 'currentRevision'], lock: t.LOCK.UPDATE, transaction: t })
+  const next = locked!.currentRevision + 1
+  await RoomRevision.create({ roomId: id, revision: next, body: room, createdBy: userId }, { transaction: t })
+  await Rooms.update({ currentRevision: next, name: room.name, updatedAt: dbNow() }, { where: { id }, transaction: t })
   return (await findRoom(id, undefined, t))!
 }
 
 export async function listRooms(ownerId: string): Promise<RoomSummary[]> {
-  const rows = await db().query<{ id: string; name: string; current_revision: number; body: Room; updated_at: Date }>(
-    `SELECT r.id, r.name, r.current_revision, rr.body, r.updated_at
-       FROM rooms r JOIN room_revisions rr ON rr.room_id = r.id AND rr.revision = r.current_revision
-      WHERE r.owner_id = $1 ORDER BY r.updated_at DESC`,
-    { bind: [ownerId], type: QueryTypes.SELECT },
-  )
-  return rows.map((r) => ({
-    id: r.id, name: r.name, revision: r.current_revision, length: r.body.length, width: r.body.width, height: r.body.height,
-    updatedAt: new Date(r.updated_at).toISOString(),
-  }))
+  const rows = await models().Room.scope('withCurrent').findAll({ where: { ownerId }, order: [['updatedAt', 'DESC']] })
+  return rows.map((r) => {
+    const body = r.current!.body
+    return { id: r.id, name: r.name, revision: r.currentRevision, length: body.length, width: body.width, height: body.height, updatedAt: r.updatedAt.toISOString() }
+  })
 }

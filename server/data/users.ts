@@ -1,4 +1,4 @@
-import { Op, fn, col, where } from 'sequelize'
+import { Op, fn, col, where, type Transaction } from 'sequelize'
 import { userModel, type UserModel } from '../db/models/user'
 import type { Role, User } from '../../shared/schemas/auth'
 
@@ -43,9 +43,15 @@ export async function listUsers(roles: Role[]): Promise<UserRecord[]> {
   return rows.map(toRecord)
 }
 
-export async function updateUser(id: string, patch: Partial<Pick<UserRecord, 'name' | 'role' | 'active' | 'units' | 'emailOptional' | 'passwordHash'>>): Promise<UserRecord | null> {
-  const u = await userModel().findByPk(id)
+export async function updateUser(id: string, patch: Partial<Pick<UserRecord, 'name' | 'role' | 'active' | 'units' | 'emailOptional' | 'passwordHash'>>, t?: Transaction): Promise<UserRecord | null> {
+  const u = await userModel().findByPk(id, { transaction: t })
   if (!u) return null
-  await u.update(patch)
+  await u.update(patch, { transaction: t })
   return toRecord(u)
+}
+
+/** The account row locked for a change of its credentials. */
+export async function findUserForUpdate(id: string, t: Transaction): Promise<UserRecord | null> {
+  const u = await userModel().findByPk(id, { transaction: t, lock: t.LOCK.UPDATE })
+  return u ? toRecord(u) : null
 }

@@ -2,7 +2,7 @@ import { readdirSync } from 'node:fs'
 import { dirname, join } from 'node:path'
 import { fileURLToPath, pathToFileURL } from 'node:url'
 import { Umzug, SequelizeStorage } from 'umzug'
-import type { QueryInterface } from 'sequelize'
+import type { QueryInterface, Sequelize } from 'sequelize'
 import { db } from './sequelize'
 
 const here = dirname(fileURLToPath(import.meta.url))
@@ -10,17 +10,19 @@ export const migrationsDir = join(here, 'migrations')
 
 export type Migration = { up: (ctx: { context: QueryInterface }) => Promise<void>; down: (ctx: { context: QueryInterface }) => Promise<void> }
 
-/** Migrations are numbered files `NNNN-what-it-does.ts` in server/db/migrations, applied in name order. */
-function migrator() {
-  const files = readdirSync(migrationsDir)
+/**
+ * Migrations are numbered files `NNNN-what-it-does.ts` in server/db/migrations, applied in name order.
+ * `dir` and `sequelize` are for the schema tests (a copy of earlier migrations, a database of their own).
+ */
+export function migrator(sequelize: Sequelize = db(), dir = migrationsDir) {
+  const files = readdirSync(dir)
     .filter((f) => /^\d{4}-[a-z0-9-]+\.ts$/.test(f))
     .sort()
-  const sequelize = db()
   return new Umzug<QueryInterface>({
     migrations: files.map((file) => ({
       name: file.replace(/\.ts$/, ''),
-      up: async ({ context }) => ((await import(pathToFileURL(join(migrationsDir, file)).href)) as Migration).up({ context }),
-      down: async ({ context }) => ((await import(pathToFileURL(join(migrationsDir, file)).href)) as Migration).down({ context }),
+      up: async ({ context }) => ((await import(pathToFileURL(join(dir, file)).href)) as Migration).up({ context }),
+      down: async ({ context }) => ((await import(pathToFileURL(join(dir, file)).href)) as Migration).down({ context }),
     })),
     context: sequelize.getQueryInterface(),
     storage: new SequelizeStorage({ sequelize, tableName: 'schema_migrations' }),

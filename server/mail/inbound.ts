@@ -6,6 +6,10 @@ import { db } from '../db/sequelize'
 import { AppError } from '../errors'
 import { log } from '../lib/log'
 import { receiveEmailReply } from '../services/messages'
+import { insertMessage } from '../data/messages'
+import { insertEvent } from '../data/events'
+import { withTransaction } from '../db/transaction'
+import { publishCase } from '../services/live'
 import { REPLY_MARKER } from './templates'
 
 /** An e-mail sent to a case's reply address, from the fake SMTP server or a provider's inbound webhook. */
@@ -123,6 +127,29 @@ async function logInbound(via: 'smtp' | 'webhook', mail: InboundEmail, status: '
   if (status === 'rejected') log.warn('inbound e-mail rejected', { via, reason, from: mail.from })
 }
 
+/**
+ * A reply to a case's address from someone who is not the case's listener: never posted as the
+ * listener. It is kept on the case as an internal note (staff only, ../data/visibility.ts) with an
+ * internal history entry, so the advisor sees it and can decide what to do.
+ */
+async function holdForTeam(caseId: string, mail: InboundEmail, sender: string | null): Promise<void> {
+  const text = stripQuotedReply(mail.text?.trim() ? mail.text : mail.html ? htmlToReplyText(mail.html) : '').slice(0, 4000)
+  const from = (sender ?? String(mail.from ?? '')).slice(0, 200).replace(/[`\r\n]/g, ' ')
+  const body = [
+    `**E-mail held for the team.** A reply to this case's address came from \`${from || 'an unknown sender'}\`, which is not the listener's address, so it was not added as the listener's message.`,
+    mail.subject ? `Subject: ${mail.subject.slice(0, 300).replace(/[\r\n]+/g, ' ')}` : '',
+    text ? text.split('\n').map((l) => `> ${l}`).join('\n') : '_(no text)_',
+  ].filter(Boolean).join('\n\n')
+  await withTransaction(async (t, afterCommit) => {
+    const messageId = await insertMessage({ caseId, authorId: null, body, internal: true, source: 'email' }, t)
+    const seq = await insertEvent({ caseId, actorId: null, kind: 'email-held', data: { messageId, internal: true, from } }, t)
+    afterCommit(() => {
+      publishCase(caseId, { type: 'case.message', caseId, messageId, internal: true }, { internal: true })
+      publishCase(caseId, { type: 'case.event', caseId, seq, kind: 'email-held', internal: true }, { internal: true })
+    })
+  })
+}
+
 function sameToken(a: string, b: string): boolean {
   const x = Buffer.from(a)
   const y = Buffer.from(b)
@@ -151,7 +178,10 @@ export async function handleInboundEmail(mail: InboundEmail, opts: { via?: 'smtp
   )
   if (!c || !sameToken(c.reply_token, token)) return reject('unknown_token')
   const sender = parseAddress(mail.from ?? '')
-  if (!sender || sender !== c.listener_email.toLowerCase()) return reject('sender_mismatch', c.id)
+  if (!sender || sender !== c.listener_email.toLowerCase()) {
+    await holdForTeam(c.id, mail, sender)
+    return reject('sender_mismatch', c.id)
+  }
   if (mail.autoSubmitted && mail.autoSubmitted.trim().toLowerCase() !== 'no') return reject('auto_reply', c.id)
 
   const source = mail.text?.trim() ? mail.text : mail.html ? htmlToReplyText(mail.html) : ''

@@ -2,7 +2,7 @@ import { readFileSync } from 'node:fs'
 import { fileURLToPath } from 'node:url'
 import { JSDOM } from 'jsdom'
 import createDOMPurify, { type DOMPurify } from 'dompurify'
-import { Marked } from 'marked'
+import { renderMarkdown } from '../../shared/markdown'
 import { z } from 'zod'
 import { config } from '../config'
 
@@ -15,11 +15,11 @@ import { config } from '../config'
  * value is an error, so a typo in a template cannot send a half-filled e-mail.
  */
 
-export const EMAIL_KINDS = ['reply', 'info-requested', 'status-changed', 'plan-sent', 'invitation', 'welcome'] as const
+export const EMAIL_KINDS = ['reply', 'info-requested', 'status-changed', 'plan-sent', 'invitation', 'welcome', 'password-reset', 'password-changed'] as const
 export type EmailKind = (typeof EMAIL_KINDS)[number]
 
 /** Sent even when the user turned optional e-mails off. */
-export const ESSENTIAL_KINDS: ReadonlySet<EmailKind> = new Set(['reply', 'info-requested', 'plan-sent', 'invitation'])
+export const ESSENTIAL_KINDS: ReadonlySet<EmailKind> = new Set(['reply', 'info-requested', 'plan-sent', 'invitation', 'password-reset', 'password-changed'])
 /** About one case: carry the case title and link, a per-case Reply-To, and the reply hint. */
 export const CASE_KINDS: ReadonlySet<EmailKind> = new Set(['reply', 'info-requested', 'status-changed', 'plan-sent'])
 
@@ -54,6 +54,8 @@ export const emailVarsSchemas = {
     expiresAt: z.coerce.date(),
   }),
   welcome: z.object({ recipientName: name }),
+  'password-reset': z.object({ recipientName: name, resetUrl: httpUrl, expiresAt: z.coerce.date() }),
+  'password-changed': z.object({ recipientName: name, changedAt: z.coerce.date(), how: z.enum(['signed-in', 'reset-link']) }),
 } satisfies Record<EmailKind, z.ZodType>
 
 export type EmailVars<K extends EmailKind> = z.input<(typeof emailVarsSchemas)[K]>
@@ -77,36 +79,16 @@ export const caseUrl = (caseId: string) => `${publicBaseUrl()}/cases/${encodeURI
 
 // ---------------------------------------------------------------- markdown
 
-const marked = new Marked({ gfm: true, breaks: true, async: false })
 let purifier: DOMPurify | undefined
-function purify(): DOMPurify {
-  if (!purifier) {
-    const p = createDOMPurify(new JSDOM('').window as unknown as Parameters<typeof createDOMPurify>[0])
-    p.addHook('afterSanitizeAttributes', (node) => {
-      if (node.tagName === 'A' && node.hasAttribute('href')) {
-        node.setAttribute('rel', 'noopener noreferrer nofollow')
-        node.setAttribute('target', '_blank')
-      }
-    })
-    purifier = p
-  }
-  return purifier
-}
+const purify = (): DOMPurify => (purifier ??= createDOMPurify(new JSDOM('').window as unknown as Parameters<typeof createDOMPurify>[0]))
 
 /**
- * The one server-side markdown renderer (messages in the API and in e-mails): marked (GFM, line
- * breaks kept), then DOMPurify. No scripts, styles, forms, frames, event-handler attributes or
- * inline styles survive; links and images may only point at http(s), mailto, in-page anchors or
- * same-site paths.
+ * The one server-side markdown renderer (messages in the API and in e-mails): shared/markdown.ts with a
+ * DOMPurify over a jsdom window — the client's preview runs the same renderer with the browser's DOMPurify.
+ * Addresses are resolved against PUBLIC_URL.
  */
 export function renderMarkdownSafe(md: string): string {
-  const raw = marked.parse(md ?? '') as string
-  return purify().sanitize(raw, {
-    USE_PROFILES: { html: true },
-    FORBID_TAGS: ['style', 'form', 'input', 'button', 'textarea', 'select', 'option', 'iframe', 'frame', 'object', 'embed', 'base', 'link', 'meta'],
-    FORBID_ATTR: ['style', 'srcset', 'formaction'],
-    ALLOWED_URI_REGEXP: /^(?:https?:|mailto:|#|\/(?!\/))/i,
-  }) as string
+  return renderMarkdown(md, purify(), publicBaseUrl())
 }
 
 // ---------------------------------------------------------------- placeholders
@@ -205,8 +187,25 @@ function kindValues(kind: EmailKind, v: Record<string, unknown>): { values: Reco
     }
     case 'welcome':
       return { values: { ...base, appUrl: `${publicBaseUrl()}/` }, preheader: 'Describe your room and see its modes at once' }
+    case 'password-reset':
+      return {
+        values: { ...base, resetUrl: s('resetUrl'), expiresText: utcText(v.expiresAt as Date) },
+        preheader: 'A link to choose a new password',
+      }
+    case 'password-changed':
+      return {
+        values: {
+          ...base,
+          changedText: utcText(v.changedAt as Date),
+          howText: v.how === 'reset-link' ? 'with a link sent to this address' : 'while signed in, with the old password',
+          signInUrl: `${publicBaseUrl()}/sign-in`,
+        },
+        preheader: 'If this was not you, choose a new password now',
+      }
   }
 }
+
+const utcText = (d: Date) => d.toUTCString().replace(/:\d\d GMT$/, ' UTC')
 
 function excerpt(md: string, max = 120): string {
   const plain = md.replace(/[#>*_`~[\]()!|-]+/g, ' ').replace(/\s+/g, ' ').trim()

@@ -7,11 +7,20 @@ export const notFoundHandler: RequestHandler = (req, _res, next) => {
   next(new AppError(`No such API route: ${req.method} ${req.path}`, { status: 404, code: 'not_found' }))
 }
 
-const dbDown = (err: unknown) => {
-  const name = (err as { name?: string })?.name ?? ''
-  const code = (err as { parent?: { code?: string }; code?: string })?.parent?.code ?? (err as { code?: string })?.code ?? ''
-  return /Sequelize(Connection|ConnectionRefused|ConnectionAcquireTimeout|HostNotReachable|ConnectionTimedOut)Error/.test(name) ||
-    ['ECONNREFUSED', '57P01', '57P03', 'ECONNRESET'].includes(code)
+/**
+ * The database is unreachable or went away mid-request: refused or reset connections, SQLSTATE
+ * class 08 (connection exception) and 57P01–57P03 (shutdown / cannot connect now), and node-postgres'
+ * own "Connection terminated" errors, whether thrown directly or wrapped by Sequelize (parent/original/cause).
+ */
+export const isDatabaseUnavailable = (err: unknown, depth = 0): boolean => {
+  if (!err || typeof err !== 'object' || depth > 4) return false
+  const e = err as { name?: string; code?: string; message?: string; parent?: unknown; original?: unknown; cause?: unknown }
+  const name = e.name ?? ''
+  const code = String(e.code ?? '')
+  if (/Sequelize(Connection|ConnectionRefused|ConnectionAcquireTimeout|HostNotReachable|ConnectionTimedOut)Error/.test(name)) return true
+  if (['ECONNREFUSED', 'ECONNRESET', 'EPIPE', '57P01', '57P02', '57P03'].includes(code) || /^08/.test(code)) return true
+  if (/Connection terminated|not queryable|terminating connection/i.test(e.message ?? '')) return true
+  return isDatabaseUnavailable(e.parent, depth + 1) || isDatabaseUnavailable(e.original, depth + 1) || isDatabaseUnavailable(e.cause, depth + 1)
 }
 
 /** The one error middleware: JSON `{ error: { code, message, fields? } }`, never a stack trace. */
@@ -37,7 +46,7 @@ export const errorHandler: ErrorRequestHandler = (err, req, res, _next) => {
     // body-parser's own 400s (e.g. a body that claims gzip but is not) carry no `type`
     status = 400
     body = { code: 'unreadable_body', message: 'The request body could not be read' }
-  } else if (dbDown(err)) {
+  } else if (isDatabaseUnavailable(err)) {
     status = 503
     body = { code: 'unavailable', message: 'The database is not answering; please try again in a moment' }
     res.set('Retry-After', '5')

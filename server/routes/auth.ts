@@ -4,14 +4,19 @@ import passport from 'passport'
 import { validate } from '../middleware/validate'
 import { requireSignedIn, currentUser } from '../middleware/guards'
 import { csrfToken } from '../middleware/csrf'
-import { loginSchema, registerSchema, updatePreferencesSchema, type User } from '../../shared/schemas/auth'
+import {
+  changePasswordSchema, loginSchema, passwordResetRequestSchema, passwordResetSchema, registerSchema, updatePreferencesSchema, type User,
+} from '../../shared/schemas/auth'
 import { getPreferences, registerListener, setPreferences } from '../services/auth'
+import { RESET_REQUESTED_MESSAGE, changePassword, resetPassword, startPasswordReset } from '../services/passwords'
 import { AppError } from '../errors'
 
 export function authRouter(): Router {
   const router = Router()
   const limiter = passwordAttemptLimiter()
   const perAccount = accountFailureLimiter()
+  // Its own budget per client address, so asking for reset links does not eat into sign-in attempts (and the reverse).
+  const resetLimiter = passwordAttemptLimiter()
 
   router.get('/csrf', (req, res) => res.json({ token: csrfToken(req) }))
 
@@ -38,6 +43,20 @@ export function authRouter(): Router {
         res.status(204).end()
       })
     })
+  })
+
+  // Signed in, with the current password; the other sessions of the account end.
+  router.post('/password', requireSignedIn, limiter, validate(changePasswordSchema), async (req, res) =>
+    res.json(await changePassword(currentUser(req), req.sessionID, res.locals.body)))
+  // "Forgot password?": the same 202 and body for every address, answered before any lookup.
+  router.post('/password-reset/request', resetLimiter, validate(passwordResetRequestSchema), (_req, res) => {
+    startPasswordReset(res.locals.body.email)
+    res.status(202).json({ message: RESET_REQUESTED_MESSAGE })
+  })
+  // The link from the e-mail, used once; every session of the account ends, the person then signs in.
+  router.post('/password-reset', resetLimiter, validate(passwordResetSchema), async (_req, res) => {
+    await resetPassword(res.locals.body)
+    res.status(204).end()
   })
 
   router.get('/me', requireSignedIn, (req, res) => res.json(currentUser(req)))

@@ -3,14 +3,12 @@ import { requireRole, requireSignedIn, currentUser } from '../middleware/guards'
 import { validate } from '../middleware/validate'
 import { createCaseSchema, messageSchema, updateCaseSchema } from '../../shared/schemas/case'
 import { createCase, listMyCases, updateCase } from '../services/cases'
-import { readableCase, isStaff } from '../services/access'
+import { readableCase, audienceOf } from '../services/access'
 import { latestTriage, triageHistory } from '../services/triage'
 import { getThread, postMessage } from '../services/messages'
 import { listEvents } from '../data/events'
-import { AppError, notFound } from '../errors'
-import { zodFields } from '../middleware/validate'
-import { queueQuerySchema } from '../../shared/schemas/queue'
-import { queuePage } from '../data/queue'
+import { notFound } from '../errors'
+import { teamQueue } from '../services/queue'
 import { z } from 'zod'
 
 const afterQuery = z.object({ after: z.coerce.number().int().min(0).optional() })
@@ -24,19 +22,11 @@ export function casesRouter(): Router {
       const rows = await listMyCases(user)
       return res.json({ rows, total: rows.length })
     }
-    const parsed = queueQuerySchema.safeParse(req.query)
-    if (!parsed.success) throw new AppError('Some filters need another look', { status: 400, code: 'invalid', fields: zodFields(parsed.error.issues) })
-    res.json(await queuePage(user.id, parsed.data))
+    res.json(await teamQueue(user, req.query))
   })
   router.post('/', requireRole('listener'), validate(createCaseSchema), async (req, res) => res.status(201).json(await createCase(currentUser(req), res.locals.body)))
-  router.get('/:id', requireSignedIn, async (req, res) => {
-    const { replyToken: _hidden, ...c } = await readableCase(currentUser(req), String(req.params.id))
-    res.json(c)
-  })
-  router.patch('/:id', requireSignedIn, validate(updateCaseSchema), async (req, res) => {
-    const { replyToken: _hidden, ...c } = await updateCase(currentUser(req), String(req.params.id), res.locals.body) as Awaited<ReturnType<typeof updateCase>> & { replyToken?: string }
-    res.json(c)
-  })
+  router.get('/:id', requireSignedIn, async (req, res) => res.json(await readableCase(currentUser(req), String(req.params.id))))
+  router.patch('/:id', requireSignedIn, validate(updateCaseSchema), async (req, res) => res.json(await updateCase(currentUser(req), String(req.params.id), res.locals.body)))
   router.get('/:id/triage', requireSignedIn, async (req, res) => {
     await readableCase(currentUser(req), String(req.params.id))
     const triage = await latestTriage(String(req.params.id))
@@ -50,7 +40,7 @@ export function casesRouter(): Router {
   router.get('/:id/events', requireSignedIn, validate(afterQuery, 'query'), async (req, res) => {
     const user = currentUser(req)
     await readableCase(user, String(req.params.id))
-    res.json({ events: await listEvents(String(req.params.id), { afterId: res.locals.query.after, includeInternal: isStaff(user) }) })
+    res.json({ events: await listEvents(String(req.params.id), { afterId: res.locals.query.after, audience: audienceOf(user) }) })
   })
   router.get('/:id/messages', requireSignedIn, async (req, res) => res.json({ messages: await getThread(currentUser(req), String(req.params.id)) }))
   router.post('/:id/messages', requireSignedIn, validate(messageSchema), async (req, res) =>

@@ -28,7 +28,7 @@ export function filesRouter(): Router {
     res.setHeader('Content-Type', inline ? mime : row.kind === 'measurement' && mime.startsWith('text/') ? 'text/plain; charset=utf-8' : mime)
     res.setHeader('X-Content-Type-Options', 'nosniff')
     res.setHeader('Cache-Control', 'private, max-age=3600')
-    res.setHeader('Content-Disposition', `${inline ? 'inline' : 'attachment'}; filename*=UTF-8''${encodeURIComponent(row.original_name)}`)
+    res.setHeader('Content-Disposition', `${inline ? 'inline' : 'attachment'}; filename*=UTF-8''${encodeURIComponent(row.originalName)}`)
     stream.on('error', () => res.destroy())
     stream.pipe(res)
   }

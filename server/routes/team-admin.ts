@@ -4,7 +4,7 @@ import passport from 'passport'
 import { z } from 'zod'
 import { currentUser, requireRole } from '../middleware/guards'
 import { validate } from '../middleware/validate'
-import { acceptInvitationSchema, auditQuerySchema, invitationTokenSchema, inviteSchema, roleChangeSchema } from '../../shared/schemas/team'
+import { acceptInvitationSchema, auditQuerySchema, invitationTokenSchema, inviteSchema, listenerQuerySchema, roleChangeSchema } from '../../shared/schemas/team'
 import type { User } from '../../shared/schemas/auth'
 import * as team from '../services/team'
 
@@ -18,6 +18,8 @@ export function teamAdminRouter(): Router {
   const limiter = passwordAttemptLimiter()
 
   router.get('/members', supervisor, async (_req, res) => res.json({ members: await team.listMembers() }))
+  router.get('/listeners', supervisor, validate(listenerQuerySchema, 'query'), async (_req, res) => res.json(await team.listListeners(res.locals.query)))
+  // deactivate / reactivate take any account (listeners too); the role change only team members.
   router.post('/members/:id/deactivate', supervisor, idParam, async (req, res) => res.json(await team.deactivate(currentUser(req), res.locals.params.id)))
   router.post('/members/:id/reactivate', supervisor, idParam, async (req, res) => res.json(await team.reactivate(currentUser(req), res.locals.params.id)))
   router.put('/members/:id/role', supervisor, idParam, validate(roleChangeSchema), async (req, res) =>

@@ -1,8 +1,5 @@
 import { Router } from 'express'
 import { requireRole } from '../middleware/guards'
-import { validate } from '../middleware/validate'
-import { createUserSchema } from '../../shared/schemas/auth'
-import { createStaffUser } from '../services/auth'
 import { listUsers, toPublicUser } from '../data/users'
 
 export function usersRouter(): Router {
@@ -11,8 +8,7 @@ export function usersRouter(): Router {
     const users = await listUsers(['advisor', 'supervisor'])
     res.json({ users: users.map((u) => ({ ...toPublicUser(u), active: u.active })) })
   })
-  router.post('/', requireRole('supervisor'), validate(createUserSchema), async (_req, res) => {
-    res.status(201).json(await createStaffUser(res.locals.body))
-  })
+  // No POST here: advisor and supervisor accounts are created only by accepting an invitation
+  // (services/team.ts acceptInvitation), which writes the audit entry.
   return router
 }

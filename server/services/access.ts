@@ -2,16 +2,22 @@ import { findCase } from '../data/cases'
 import { findRoom } from '../data/rooms'
 import { notFound } from '../errors'
 import type { User } from '../../shared/schemas/auth'
-import type { Transaction } from 'sequelize'
+import { QueryTypes, type Transaction } from 'sequelize'
+import { db } from '../db/sequelize'
+import type { Audience } from '../data/visibility'
+
+const UUID = /^[0-9a-f]{8}-[0-9a-f]{4}-[0-9a-f]{4}-[0-9a-f]{4}-[0-9a-f]{12}$/i
 
 export const isStaff = (u: User) => u.role === 'advisor' || u.role === 'supervisor'
+/** Whose view of a readable case `u` gets: the team's (everything) or the listener's (what is shared; server/data/visibility.ts). */
+export const audienceOf = (u: User): Audience => (isStaff(u) ? 'team' : 'listener')
 
 /**
  * A case is readable by its listener, and by advisors and supervisors once it has been submitted.
  * Everyone else gets 404, so nobody learns that a case they may not see exists.
  */
 export async function readableCase(user: User, caseId: string, t?: Transaction) {
-  if (!/^[0-9a-f-]{36}$/i.test(caseId)) throw notFound('That case')
+  if (!UUID.test(caseId)) throw notFound('That case')
   const c = await findCase(caseId, t)
   if (!c) throw notFound('That case')
   if (c.listenerId === user.id) return c
@@ -19,16 +25,28 @@ export async function readableCase(user: User, caseId: string, t?: Transaction) 
   throw notFound('That case')
 }
 
-/** Rooms: the owner, or staff when the room belongs to a case they may read. */
+/**
+ * Rooms: the owner reads every revision. The team reads only the revisions the listener sent: one a
+ * submitted (non-draft) case is on, or was on when it was triaged (each triage snapshot names its
+ * revision; a case is triaged on submission and on every revision saved while it is open). A revision
+ * the listener saved but never sent answers 404, like a room nobody sent.
+ */
 export async function readableRoom(user: User, roomId: string, revision?: number) {
-  if (!/^[0-9a-f-]{36}$/i.test(roomId)) throw notFound('That room')
+  if (!UUID.test(roomId)) throw notFound('That room')
   const room = await findRoom(roomId, revision)
   if (!room) throw notFound('That room')
   if (room.ownerId === user.id) return room
   if (isStaff(user)) {
-    const { db } = await import('../db/sequelize')
-    const [rows] = await db().query(`SELECT 1 FROM cases WHERE room_id = $1 AND status <> 'draft' LIMIT 1`, { bind: [roomId] })
-    if ((rows as unknown[]).length) return room
+    const [{ sent }] = await db().query<{ sent: number[] }>(
+      `SELECT array(
+         SELECT c.room_revision FROM cases c WHERE c.room_id = $1 AND c.status <> 'draft'
+          UNION
+         SELECT ts.room_revision FROM triage_snapshots ts JOIN cases c ON c.id = ts.case_id WHERE c.room_id = $1 AND c.status <> 'draft'
+          ORDER BY 1) AS sent`,
+      { bind: [roomId], type: QueryTypes.SELECT },
+    )
+    // the list of revisions shows the team only the sent ones too
+    if (sent.includes(room.revision)) return { ...room, revisions: sent }
   }
   throw notFound('That room')
 }

@@ -3,7 +3,7 @@ import { randomBytes } from 'node:crypto'
 import { findUserByEmail, findUserById, insertUser, toPublicUser, updateUser } from '../data/users'
 import { AppError, conflict } from '../errors'
 import { assertStrongPassword } from '../auth/password-strength'
-import type { CreateUserInput, Preferences, RegisterInput, User } from '../../shared/schemas/auth'
+import type { Preferences, RegisterInput, User } from '../../shared/schemas/auth'
 
 /** bcrypt cost factor: 12 rounds in production (OWASP Password Storage Cheat Sheet: at least 10). */
 export const bcryptRounds = () => (process.env.NODE_ENV === 'production' ? 12 : 10)
@@ -38,12 +38,6 @@ export async function registerListener(input: RegisterInput): Promise<User> {
   return toPublicUser(await insertUser({ email: input.email, name: input.name, role: 'listener', passwordHash: await hashPassword(input.password) }))
 }
 
-/** Supervisors create advisor and supervisor accounts. */
-export async function createStaffUser(input: CreateUserInput): Promise<User> {
-  assertStrongPassword(input.password, [input.email, input.name])
-  if (await findUserByEmail(input.email)) throw conflict('An account with that e-mail already exists', 'email_taken')
-  return toPublicUser(await insertUser({ email: input.email, name: input.name, role: input.role, passwordHash: await hashPassword(input.password) }))
-}
 
 /** The user a session points at, or null when it is gone or switched off (the session then ends). */
 export async function sessionUser(id: string): Promise<User | null> {

@@ -1,7 +1,6 @@
-import { QueryTypes } from 'sequelize'
-import { db } from '../db/sequelize'
 import { insertEvent } from '../data/events'
-import { findFile, insertFile, listFiles, setAnalysis, toCaseFile, type FileRow } from '../data/files'
+import { findFile, insertFile, listFiles, setAnalysis, toCaseFile, type FileModel } from '../data/files'
+import { touchActivity } from '../data/cases'
 import { withTransaction } from '../db/transaction'
 import { conflict, notFound } from '../errors'
 import { storage } from '../storage'
@@ -10,7 +9,8 @@ import { discardUpload, finaliseUpload, makeThumbnail, type UploadedFile } from 
 import { enqueue } from '../jobs/queue'
 import type { CaseFile } from '../../shared/schemas/case'
 import type { User } from '../../shared/schemas/auth'
-import { isStaff, readableCase } from './access'
+import { audienceOf, isStaff, readableCase } from './access'
+import { fileIsTeamOnly } from '../data/visibility'
 import { publishCase, publishQueue } from './live'
 import { ANALYSE_MEASUREMENT } from './measurements'
 import { refreshScore } from './triage'
@@ -39,12 +39,14 @@ export async function addCaseFile(user: User, caseId: string, upload: UploadedFi
         caseId, uploaderId: user.id, kind: upload.kind, name: upload.originalname, mime: upload.mime, size: upload.size,
         storageKey: key, thumbKey, analysisStatus: upload.kind === 'measurement' ? 'queued' : null,
       }, t)
-      const seq = await insertEvent({ caseId, actorId: user.id, kind: 'file', data: { fileId: row.id, name: row.original_name, fileKind: row.kind } }, t)
+      const seq = await insertEvent({ caseId, actorId: user.id, kind: 'file', data: { fileId: row.id, name: row.originalName, fileKind: row.kind } }, t)
       if (upload.kind === 'measurement') await enqueue(ANALYSE_MEASUREMENT, { fileId: row.id }, { transaction: t })
-      await db().query('UPDATE cases SET last_activity_at = now() WHERE id = $1', { bind: [caseId], transaction: t })
+      // A file the team uploads stays with the team until it goes out with a reply (server/data/visibility.ts).
+      const internal = await fileIsTeamOnly(row.id, t)
+      await touchActivity(caseId, t)
       await refreshScore(caseId, t)
       afterCommit(() => {
-        publishCase(caseId, { type: 'case.event', caseId, seq, kind: 'file' })
+        publishCase(caseId, { type: 'case.event', caseId, seq, kind: 'file', ...(internal ? { internal } : {}) }, { internal })
         publishQueue(caseId)
       })
       return row
@@ -59,21 +61,22 @@ export async function addCaseFile(user: User, caseId: string, upload: UploadedFi
 
 export async function caseFiles(user: User, caseId: string): Promise<CaseFile[]> {
   await readableCase(user, caseId)
-  return (await listFiles(caseId)).map((r) => toCaseFile(r))
+  return (await listFiles(caseId, audienceOf(user))).map((r) => toCaseFile(r))
 }
 
-/** A file for download: only for those who may read its case (others: 404). */
-export async function readableFile(user: User, fileId: string): Promise<FileRow> {
-  if (!/^[0-9a-f-]{36}$/i.test(fileId)) throw notFound('That file')
+/** A file for download: only for those who may read its case, and only when the file is shared with them (others: 404). */
+export async function readableFile(user: User, fileId: string): Promise<FileModel> {
+  if (!/^[0-9a-f]{8}-[0-9a-f]{4}-[0-9a-f]{4}-[0-9a-f]{4}-[0-9a-f]{12}$/i.test(fileId)) throw notFound('That file')
   const f = await findFile(fileId)
   if (!f) throw notFound('That file')
-  await readableCase(user, f.case_id)
+  await readableCase(user, f.caseId)
+  if (audienceOf(user) !== 'team' && !(await findFile(fileId, audienceOf(user)))) throw notFound('That file')
   return f
 }
 
 export async function openFile(user: User, fileId: string, variant: 'original' | 'thumbnail') {
   const f = await readableFile(user, fileId)
-  const key = variant === 'thumbnail' ? f.thumb_key : f.storage_key
+  const key = variant === 'thumbnail' ? f.thumbKey : f.storageKey
   if (!key) throw notFound('A thumbnail for that file')
   return { row: f, stream: await storage().get(key), mime: variant === 'thumbnail' ? 'image/webp' : f.mime }
 }
@@ -83,7 +86,7 @@ export async function requeueAnalysis(user: User, fileId: string): Promise<CaseF
   const f = await readableFile(user, fileId)
   if (!isStaff(user) || f.kind !== 'measurement') throw notFound('That measurement')
   await withTransaction(async (t) => {
-    await db().query(`UPDATE files SET analysis_status = 'queued', analysis_error = NULL WHERE id = $1`, { bind: [fileId], transaction: t, type: QueryTypes.UPDATE })
+    await setAnalysis(fileId, 'queued', null, null, t)
     await enqueue(ANALYSE_MEASUREMENT, { fileId }, { transaction: t })
   })
   return toCaseFile((await findFile(fileId))!)

@@ -5,7 +5,11 @@ import { storage } from '../storage'
 import { handleAnalysisJob } from '../analysis/service'
 import type { PredictedReflection } from '../../shared/signal/index'
 import { latestTriage } from './triage'
+import { findCase } from '../data/cases'
+import { findRoom } from '../data/rooms'
+import type { DiagnosisContext } from '../analysis/service'
 import { publishCase } from './live'
+import { fileIsTeamOnly } from '../data/visibility'
 
 export const ANALYSE_MEASUREMENT = 'analyse-measurement'
 
@@ -27,12 +31,36 @@ async function predictedFor(caseId: string): Promise<PredictedReflection[] | und
     .map((r) => ({ surface: r.surface, delayMs: r.delayMs, levelDb: r.levelDb })) as PredictedReflection[]
 }
 
+/**
+ * The case's room as the listener stated it, its main seat and bass sources, so the analysis can
+ * explain the measured low-frequency peaks (undefined: no room found).
+ */
+async function diagnosisFor(caseId: string): Promise<DiagnosisContext | undefined> {
+  const c = await findCase(caseId)
+  if (!c) return undefined
+  const rec = await findRoom(c.room.id, c.room.revision)
+  if (!rec) return undefined
+  const r = rec.room
+  const pt = (p: { x: number; y: number; z: number }) => ({ x: p.x, y: p.y, z: p.z })
+  const bySide = [...r.speakers].sort((a, b) => a.y - b.y)
+  return {
+    room: { length: r.length, width: r.width, height: r.height },
+    celsius: r.celsius,
+    seat: pt(r.seats[0]),
+    left: pt(bySide[0]),
+    right: pt(bySide[bySide.length - 1]),
+    subwoofer: r.subwoofers.length ? pt(r.subwoofers[0]) : undefined,
+  }
+}
+
 async function after(fileId: string, status: string) {
   const f = await findFile(fileId)
   if (!f) return
-  const seq = await insertEvent({ caseId: f.case_id, actorId: null, kind: 'analysis', data: { fileId, status, name: f.original_name, reason: f.analysis_error } })
-  publishCase(f.case_id, { type: 'case.analysis', caseId: f.case_id, fileId, status })
-  publishCase(f.case_id, { type: 'case.event', caseId: f.case_id, seq, kind: 'analysis' })
+  const seq = await insertEvent({ caseId: f.caseId, actorId: null, kind: 'analysis', data: { fileId, status, name: f.originalName, reason: f.analysisError } })
+  // An analysis of a file the listener may not see is news for the team only (server/data/visibility.ts).
+  const internal = await fileIsTeamOnly(fileId)
+  publishCase(f.caseId, { type: 'case.analysis', caseId: f.caseId, fileId, status }, { internal })
+  publishCase(f.caseId, { type: 'case.event', caseId: f.caseId, seq, kind: 'analysis', ...(internal ? { internal } : {}) }, { internal })
 }
 
 export async function runAnalysisJob(job: { data: { fileId: string } }) {
@@ -41,7 +69,12 @@ export async function runAnalysisJob(job: { data: { fileId: string } }) {
       const f = await findFile(fileId)
       if (!f) throw new Error(`file ${fileId} no longer exists`)
       await setAnalysis(fileId, 'running', null, null)
-      return { bytes: await storage().getBuffer(f.storage_key), fileName: f.original_name, predicted: await predictedFor(f.case_id) }
+      return {
+        bytes: await storage().getBuffer(f.storageKey),
+        fileName: f.originalName,
+        predicted: await predictedFor(f.caseId),
+        diagnosis: await diagnosisFor(f.caseId),
+      }
     },
     saveResult: async (fileId, result) => {
       await setAnalysis(fileId, 'done', result, null)

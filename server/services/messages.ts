@@ -1,51 +1,47 @@
 import type { Transaction } from 'sequelize'
-import { QueryTypes } from 'sequelize'
-import { db } from '../db/sequelize'
 import { findCase, setAssignee, touchAfterMessage, updateStatus } from '../data/cases'
 import { insertEvent } from '../data/events'
-import { insertMessage, listMessages, type MessageRow } from '../data/messages'
+import { attachFilesToMessage, insertMessage, listMessages } from '../data/messages'
+import type { MessageModel } from '../db/models'
 import { findUserById } from '../data/users'
 import { withTransaction } from '../db/transaction'
 import { badRequest, conflict, forbidden, notFound } from '../errors'
 import { renderMarkdownSafe } from '../mail/templates'
 import { messageSchema, type CaseMessage, type CaseStatus, type MessageInput } from '../../shared/schemas/case'
 import type { User } from '../../shared/schemas/auth'
-import { isStaff, readableCase } from './access'
+import { audienceOf, isStaff, readableCase } from './access'
 import { publishCase, publishQueue } from './live'
 import { notifyListener } from './notify'
 
-export const toMessage = (m: MessageRow): CaseMessage => ({
+export const toMessage = (m: MessageModel): CaseMessage => ({
   id: m.id,
-  caseId: m.case_id,
-  author: m.author_id ? { id: m.author_id, name: m.author_name ?? '', role: m.author_role ?? '' } : null,
+  caseId: m.caseId,
+  author: m.authorId ? { id: m.authorId, name: m.author?.name ?? '', role: m.author?.role ?? '' } : null,
   body: m.body,
   html: renderMarkdownSafe(m.body),
   internal: m.internal,
   source: m.source,
-  createdAt: new Date(m.created_at).toISOString(),
-  fileIds: m.file_ids ?? [],
+  createdAt: m.createdAt.toISOString(),
+  fileIds: (m.files ?? []).map((f) => f.id),
 })
 
 /** The thread; internal notes only for advisors and supervisors, whatever the caller asks for. */
 export async function getThread(user: User, caseId: string): Promise<CaseMessage[]> {
   await readableCase(user, caseId)
-  return (await listMessages(caseId, isStaff(user))).map(toMessage)
+  return (await listMessages(caseId, audienceOf(user))).map(toMessage)
 }
 
 export async function getMessage(user: User, caseId: string, messageId: string): Promise<CaseMessage> {
   await readableCase(user, caseId)
-  const [m] = await listMessages(caseId, isStaff(user), messageId)
+  const [m] = await listMessages(caseId, audienceOf(user), messageId)
   if (!m) throw notFound('That message')
   return toMessage(m)
 }
 
-async function attachFiles(caseId: string, messageId: string, fileIds: string[], t: Transaction) {
+/** Links the poster's own unattached uploads on this case to their message (what the listener then sees follows from it: ../data/visibility.ts). */
+async function attachFiles(caseId: string, messageId: string, uploaderId: string, fileIds: string[], t: Transaction) {
   if (!fileIds.length) return
-  const rows = await db().query<{ id: string }>(
-    'UPDATE files SET message_id = $3 WHERE case_id = $1 AND id = ANY($2::uuid[]) AND message_id IS NULL RETURNING id',
-    { bind: [caseId, fileIds, messageId], type: QueryTypes.SELECT, transaction: t },
-  )
-  if (rows.length !== fileIds.length) throw badRequest('Attach only files uploaded to this case', [{ path: 'fileIds', message: 'unknown or already attached file' }])
+  if ((await attachFilesToMessage(caseId, messageId, uploaderId, [...new Set(fileIds)], t)) !== new Set(fileIds).size) throw badRequest('Attach only files you uploaded to this case', [{ path: 'fileIds', message: 'unknown, not yours or already attached file' }])
 }
 
 /** A status move the thread makes by itself (an advisor's question, a listener's answer); a no-op when the case moved meanwhile. */
@@ -65,7 +61,7 @@ export async function postMessage(user: User, caseId: string, input: MessageInpu
 
   const messageId = await withTransaction(async (t, afterCommit) => {
     const id = await insertMessage({ caseId, authorId: user.id, body: body.body, internal: body.internal, source }, t)
-    await attachFiles(caseId, id, body.fileIds, t)
+    await attachFiles(caseId, id, user.id, body.fileIds, t)
     const seq = await insertEvent({ caseId, actorId: user.id, kind: body.internal ? 'note' : 'message', data: { messageId: id, internal: body.internal, source } }, t)
     const moves: number[] = []
     if (staff && !body.internal) {
@@ -100,7 +96,7 @@ export async function postMessage(user: User, caseId: string, input: MessageInpu
     })
     return id
   })
-  const [m] = await listMessages(caseId, true, messageId)
+  const [m] = await listMessages(caseId, 'team', messageId)
   return toMessage(m)
 }
 

@@ -20,7 +20,6 @@ export async function notifyListener(input: { caseId: string; event: ListenerEma
       toUserId: listener.id,
       kind: input.event,
       caseId: c.id,
-      replyToken: c.replyToken,
       vars: { listenerName: listener.name, caseTitle: c.title, caseUrl: caseUrl(c.id), ...input.vars },
     },
     { transaction: t },

@@ -134,7 +134,7 @@ export async function renderPlanPdf(input: PlanPdfInput): Promise<Buffer> {
     text(`${i + 1}. ${c.title}`, { width: CONTENT_W })
     doc.font('Helvetica').fontSize(9.5).fillColor(COLORS.ink)
     text(c.summary, { width: CONTENT_W, lineGap: 1 })
-    const note = id === 'seat' ? plan.body.seatNote : id === 'speakers' ? plan.body.speakersNote : plan.body.treatments.find((t) => t.id === id)?.note
+    const note = id === 'seat' ? plan.body.seatNote : id === 'speakers' ? plan.body.speakersNote : id === 'subwoofers' ? plan.body.subwoofersNote : plan.body.treatments.find((t) => t.id === id)?.note
     if (note?.trim()) {
       doc.fillColor(COLORS.muted).font('Helvetica-Oblique')
       text(`Advisor: ${note.trim()}`, { width: CONTENT_W })
@@ -182,6 +182,10 @@ export async function renderPlanPdf(input: PlanPdfInput): Promise<Buffer> {
   for (const s of plan.body.speakers) {
     const was = room.speakers.find((x) => x.label === s.label)
     moves.push([String(stepOf.get('speakers') ?? ''), `Speaker ${s.label}`, `front of the cabinet's acoustic centre ${f2(s.x)} m from the front wall, ${f2(s.y)} m from the left wall, ${f2(s.z)} m high${was ? ` (was ${f2(was.x)} m, ${f2(was.y)} m)` : ''}`])
+  }
+  for (const s of plan.body.subwoofers ?? []) {
+    const was = (room.subwoofers ?? []).find((x) => x.label === s.label)
+    moves.push([String(stepOf.get('subwoofers') ?? ''), `Subwoofer ${s.label}`, `${f2(s.x)} m from the front wall, ${f2(s.y)} m from the left wall, ${f2(s.z)} m high${was ? ` (was ${f2(was.x)} m, ${f2(was.y)} m)` : ''}`])
   }
   if (moves.length) {
     sub('Seat and speaker positions')

@@ -10,9 +10,9 @@ import { publicBaseUrl } from '../mail/templates'
 import { sockets } from '../sockets'
 import { hashPassword } from './auth'
 import { publishCase, publishQueue } from './live'
-import type { User } from '../../shared/schemas/auth'
+import type { Role, User } from '../../shared/schemas/auth'
 import type {
-  AcceptInvitationInput, AuditAction, AuditEntry, AuditQuery, Invitation, InvitationPreview, InviteInput, StaffRole, TeamMember,
+  AccountSummary, ListenerQuery, AcceptInvitationInput, AuditAction, AuditEntry, AuditQuery, Invitation, InvitationPreview, InviteInput, StaffRole, TeamMember,
 } from '../../shared/schemas/team'
 
 /** How long an invitation link works. */
@@ -33,8 +33,9 @@ export async function recordAudit(
   )
 }
 
-interface MemberRow { id: string; name: string; email: string; role: StaffRole; active: boolean; created_at: Date; open_cases: number }
-const toMember = (r: MemberRow): TeamMember => ({ id: r.id, name: r.name, email: r.email, role: r.role, active: r.active, createdAt: iso(r.created_at), openCases: r.open_cases })
+interface MemberRow { id: string; name: string; email: string; role: Role; active: boolean; created_at: Date; open_cases: number }
+const toMember = (r: MemberRow): TeamMember => ({ id: r.id, name: r.name, email: r.email, role: r.role as StaffRole, active: r.active, createdAt: iso(r.created_at), openCases: r.open_cases })
+const toAccount = (r: MemberRow): AccountSummary => ({ id: r.id, name: r.name, email: r.email, role: r.role, active: r.active, createdAt: iso(r.created_at), openCases: r.open_cases })
 
 export async function listMembers(): Promise<TeamMember[]> {
   const rows = await select<MemberRow>(
@@ -46,16 +47,48 @@ export async function listMembers(): Promise<TeamMember[]> {
   return rows.map(toMember)
 }
 
-async function member(id: string, t?: Transaction): Promise<MemberRow> {
-  if (!/^[0-9a-f-]{36}$/i.test(id)) throw notFound('That team member')
+/** Open cases of an account: assigned to it for staff, its own for listeners. */
+const openCasesOf = `(SELECT count(*)::int FROM cases c WHERE (CASE WHEN u.role = 'listener' THEN c.listener_id ELSE c.assignee_id END) = u.id
+                        AND c.status NOT IN ('draft', 'closed'))`
+
+/** One account, locked for a change: staff only (`staff`) or any account, listeners included (`any`). */
+async function account(id: string, who: 'staff' | 'any', t?: Transaction): Promise<MemberRow> {
+  const what = who === 'staff' ? 'That team member' : 'That account'
+  if (!/^[0-9a-f-]{36}$/i.test(id)) throw notFound(what)
   const [row] = await select<MemberRow>(
-    `SELECT u.id, u.name, u.email, u.role, u.active, u.created_at,
-            (SELECT count(*)::int FROM cases c WHERE c.assignee_id = u.id AND c.status NOT IN ('draft', 'closed')) AS open_cases
-       FROM users u WHERE u.id = $1 AND u.role IN ('advisor', 'supervisor') FOR UPDATE OF u`,
-    [id], t,
+    `SELECT u.id, u.name, u.email, u.role, u.active, u.created_at, ${openCasesOf} AS open_cases
+       FROM users u WHERE u.id = $1 AND ($2::text = 'any' OR u.role IN ('advisor', 'supervisor')) ${t ? 'FOR UPDATE OF u' : ''}`,
+    [id, who], t,
   )
-  if (!row) throw notFound('That team member')
+  if (!row) throw notFound(what)
   return row
+}
+const member = (id: string, t?: Transaction) => account(id, 'staff', t)
+
+/** Listener accounts for the people list, by name or e-mail (case-insensitive part of either), paged. */
+export async function listListeners(q: ListenerQuery): Promise<{ listeners: AccountSummary[]; total: number }> {
+  const rows = await select<MemberRow & { total: number }>(
+    `SELECT u.id, u.name, u.email, u.role, u.active, u.created_at, ${openCasesOf} AS open_cases, count(*) OVER ()::int AS total
+       FROM users u
+      WHERE u.role = 'listener' AND ($1::text IS NULL OR u.name ILIKE '%' || $1 || '%' OR u.email ILIKE '%' || $1 || '%')
+        AND ($2::boolean IS NULL OR u.active = $2)
+      ORDER BY u.active DESC, lower(u.name), u.id LIMIT $3 OFFSET $4`,
+    [q.search ? q.search.replace(/[\\%_]/g, (c) => `\\${c}`) : null, q.active ?? null, q.pageSize, (q.page - 1) * q.pageSize],
+  )
+  return { total: rows[0]?.total ?? 0, listeners: rows.map(toAccount) }
+}
+
+/** Ends every session of an account (rows in the session store) except `keepSid`, and its live sockets from those sessions. */
+export async function endSessions(userId: string, t: Transaction, afterCommit: (cb: () => void) => void, keepSid?: string): Promise<number> {
+  const ended = await select<{ sid: string }>(
+    'DELETE FROM "session" WHERE user_id = $1 AND ($2::text IS NULL OR sid <> $2) RETURNING sid', [userId, keepSid ?? null], t,
+  )
+  afterCommit(() => {
+    const op = sockets()?.in(`user:${userId}`)
+    if (!op) return
+    ;(keepSid ? op.except(`session:${keepSid}`) : op).disconnectSockets(true)
+  })
+  return ended.length
 }
 
 // ----------------------------------------------------------------- invitations
@@ -163,42 +196,45 @@ export async function acceptInvitation(input: AcceptInvitationInput): Promise<Us
 // ----------------------------------------------------------------- accounts
 
 /**
- * Switches an account off: its sessions end at once (rows deleted, sockets disconnected), and its
- * open cases go back to the queue unassigned, each with an event in its history.
+ * Switches an account off (a listener's or a team member's): its sessions end at once (rows
+ * deleted, sockets disconnected). A team member's open cases go back to the queue unassigned, each
+ * with an event in its history; a listener's cases stay as they are, readable by the desk.
  */
-export async function deactivate(by: User, id: string): Promise<TeamMember> {
+export async function deactivate(by: User, id: string): Promise<AccountSummary> {
   if (id === by.id) throw forbidden('You cannot switch off your own account; ask another supervisor')
   await withTransaction(async (t, afterCommit) => {
-    const m = await member(id, t)
+    const m = await account(id, 'any', t)
     if (!m.active) throw conflict(`${m.name}'s account is already switched off`, 'already_inactive')
     await db().query('UPDATE users SET active = false, updated_at = now() WHERE id = $1', { bind: [id], transaction: t })
-    const cases = await select<{ id: string }>(
+    const cases = m.role === 'listener' ? [] : await select<{ id: string }>(
       `UPDATE cases SET assignee_id = NULL, updated_at = now() WHERE assignee_id = $1 AND status NOT IN ('draft', 'closed') RETURNING id`, [id], t,
     )
     for (const c of cases) {
       await insertEvent({ caseId: c.id, actorId: by.id, kind: 'unassigned', data: { fromAssigneeId: id, fromAssigneeName: m.name, reason: 'account switched off', internal: true } }, t)
     }
-    await db().query('DELETE FROM "session" WHERE user_id = $1', { bind: [id], transaction: t })
-    await recordAudit({ actorId: by.id, action: 'member.deactivated', targetUserId: id, targetName: m.name, targetEmail: m.email, details: { casesReturned: cases.length } }, t)
+    const sessionsEnded = await endSessions(id, t, afterCommit)
+    await recordAudit({
+      actorId: by.id, action: 'member.deactivated', targetUserId: id, targetName: m.name, targetEmail: m.email,
+      details: m.role === 'listener' ? { role: m.role, sessionsEnded } : { casesReturned: cases.length },
+    }, t)
     afterCommit(() => {
-      sockets()?.in(`user:${id}`).disconnectSockets(true)
       for (const c of cases) {
         publishCase(c.id, { type: 'case.updated', caseId: c.id })
         publishQueue(c.id)
       }
     })
   })
-  return toMember(await member(id))
+  return toAccount(await account(id, 'any'))
 }
 
-export async function reactivate(by: User, id: string): Promise<TeamMember> {
+export async function reactivate(by: User, id: string): Promise<AccountSummary> {
   await withTransaction(async (t) => {
-    const m = await member(id, t)
+    const m = await account(id, 'any', t)
     if (m.active) throw conflict(`${m.name}'s account is already on`, 'already_active')
     await db().query('UPDATE users SET active = true, updated_at = now() WHERE id = $1', { bind: [id], transaction: t })
     await recordAudit({ actorId: by.id, action: 'member.reactivated', targetUserId: id, targetName: m.name, targetEmail: m.email }, t)
   })
-  return toMember(await member(id))
+  return toAccount(await account(id, 'any'))
 }
 
 /** Advisor ⇄ supervisor. The new role applies from the member's next request (sessions read the role each time). */

@@ -1,6 +1,7 @@
 import { QueryTypes, type Transaction } from 'sequelize'
-import { db } from '../db/sequelize'
+import { models } from '../db/models'
 import { findCase, setScore } from '../data/cases'
+import { countEvidence } from '../data/files'
 import { findRoom } from '../data/rooms'
 import { insertEvent } from '../data/events'
 import { computeRoomAnalysis, ENGINE_VERSION, type RoomAnalysis } from '../../shared/acoustics'
@@ -131,16 +132,10 @@ export async function storeTriage(caseId: string, prepared: PreparedAnalysis, t?
   }
   const room = await findRoom(c.room.id, c.room.revision, t)
   if (!room) throw notFound('That room')
-  const [counts] = await db().query<{ measurements: number; photos: number }>(
-    `SELECT count(*) FILTER (WHERE kind = 'measurement')::int AS measurements, count(*) FILTER (WHERE kind = 'photo')::int AS photos FROM files WHERE case_id = $1`,
-    { bind: [caseId], type: QueryTypes.SELECT, transaction: t },
-  )
+  const counts = await countEvidence(caseId, t)
   const snapshot = snapshotFromAnalysis(prepared.analysis, room.revision, { ...counts, descriptionLength: c.description.length }, new Date())
   const score = snapshot.score
-  await db().query('INSERT INTO triage_snapshots (case_id, room_revision, engine_version, body, score) VALUES ($1, $2, $3, $4, $5)', {
-    bind: [caseId, room.revision, ENGINE_VERSION, JSON.stringify(snapshot), score],
-    transaction: t,
-  })
+  await models().TriageSnapshot.create({ caseId, roomRevision: room.revision, engineVersion: ENGINE_VERSION, body: snapshot, score }, { transaction: t })
   await setScore(caseId, score, snapshot.flags.map((f) => ({ id: f.id, severity: f.severity })), t)
   await insertEvent({ caseId, actorId: null, kind: 'triage', data: { roomRevision: room.revision, engineVersion: ENGINE_VERSION, score } }, t)
   return snapshot
@@ -151,37 +146,33 @@ export async function storeTriage(caseId: string, prepared: PreparedAnalysis, t?
  * from the latest snapshot's flags; the snapshot itself stays as computed.
  */
 export async function refreshScore(caseId: string, t?: Transaction): Promise<void> {
-  const [row] = await db().query<{ flags: { severity: string }[]; description: string; measurements: number; photos: number }>(
-    `SELECT ts.body->'flags' AS flags, c.description,
-            (SELECT count(*)::int FROM files WHERE case_id = c.id AND kind = 'measurement') AS measurements,
-            (SELECT count(*)::int FROM files WHERE case_id = c.id AND kind = 'photo') AS photos
-       FROM cases c JOIN triage_snapshots ts ON ts.case_id = c.id
-      WHERE c.id = $1 ORDER BY ts.id DESC LIMIT 1`,
-    { bind: [caseId], type: QueryTypes.SELECT, transaction: t },
-  )
-  if (!row) return
-  const { score } = triageScore(row.flags, { measurements: row.measurements, photos: row.photos, descriptionLength: row.description.length })
-  await db().query('UPDATE cases SET score = $2 WHERE id = $1', { bind: [caseId, score], transaction: t })
+  const now = await currentTriage(caseId, t)
+  if (!now) return
+  await setScore(caseId, now.score, undefined, t)
+}
+
+/** The case's latest snapshot and its score re-weighed with the files and description the case has now. */
+async function currentTriage(caseId: string, t?: Transaction) {
+  const { Case, TriageSnapshot } = models()
+  const [snap, c, counts] = await Promise.all([
+    TriageSnapshot.findOne({ where: { caseId }, order: [['id', 'DESC']], transaction: t }),
+    Case.findByPk(caseId, { attributes: ['id', 'description'], transaction: t }),
+    countEvidence(caseId, t),
+  ])
+  if (!snap || !c) return null
+  return { body: snap.body, ...triageScore(snap.body.flags, { ...counts, descriptionLength: c.description.length }) }
 }
 
 /** The latest snapshot, with its score re-weighed for what the case holds now (files arrive after submission). */
 export async function latestTriage(caseId: string): Promise<TriageSnapshot | null> {
-  const rows = await db().query<{ body: TriageSnapshot; description: string; measurements: number; photos: number }>(
-    `SELECT ts.body, c.description,
-            (SELECT count(*)::int FROM files WHERE case_id = c.id AND kind = 'measurement') AS measurements,
-            (SELECT count(*)::int FROM files WHERE case_id = c.id AND kind = 'photo') AS photos
-       FROM triage_snapshots ts JOIN cases c ON c.id = ts.case_id WHERE ts.case_id = $1 ORDER BY ts.id DESC LIMIT 1`,
-    { bind: [caseId], type: QueryTypes.SELECT },
-  )
-  const row = rows[0]
-  if (!row) return null
-  const { score, parts } = triageScore(row.body.flags, { measurements: row.measurements, photos: row.photos, descriptionLength: row.description.length })
-  return { ...row.body, score, scoreParts: parts }
+  const now = await currentTriage(caseId)
+  return now ? { ...now.body, score: now.score, scoreParts: now.parts } : null
 }
 
 /** Every triage of a case, oldest first, reduced to the figures compared between room revisions (computed in SQL). */
 export async function triageHistory(caseId: string): Promise<TriageHistoryEntry[]> {
-  const rows = await db().query<{ room_revision: number; computed_at: Date; engine_version: string; score: number; flags: { id: string; severity: string }[] | null; rt500: number | null; spread: number | null; in_window: number }>(
+  // Hand-written: the figures are picked out of each snapshot's JSON body in the database (jsonb_array_elements), not shipped whole.
+  const rows = await models().TriageSnapshot.sequelize!.query<{ room_revision: number; computed_at: Date; engine_version: string; score: number; flags: { id: string; severity: string }[] | null; rt500: number | null; spread: number | null; in_window: number }>(
     `SELECT ts.room_revision, ts.computed_at, ts.engine_version, ts.score,
             (SELECT jsonb_agg(jsonb_build_object('id', f->>'id', 'severity', f->>'severity')) FROM jsonb_array_elements(ts.body->'flags') f) AS flags,
             (SELECT (b->>'eyring')::float FROM jsonb_array_elements(ts.body->'reverberation'->'bands') b WHERE (b->>'hz')::int = 500) AS rt500,

@@ -36,6 +36,11 @@ export class LocalStorage implements Storage {
 
   async put(key: string, body: Readable | Buffer): Promise<{ size: number }> {
     const target = this.pathOf(key)
+    // A source stream can fail while the temp file is still being opened (before pipeline() listens):
+    // catch that error from the first moment, so it fails this put instead of the whole process.
+    let earlyError: Error | undefined
+    const onEarlyError = (err: Error) => (earlyError ??= err)
+    if (!Buffer.isBuffer(body)) body.on('error', onEarlyError)
     const tempDir = path.join(this.root, TEMP_DIR)
     await mkdir(tempDir, { recursive: true })
     const temp = path.join(tempDir, randomUUID())
@@ -46,6 +51,7 @@ export class LocalStorage implements Storage {
         await handle.writeFile(body)
         size = body.length
       } else {
+        if (earlyError) throw earlyError
         const counter = new Transform({
           transform(chunk: Buffer, _enc, done) {
             size += chunk.length
@@ -58,6 +64,7 @@ export class LocalStorage implements Storage {
           },
         })
         await pipeline(body, counter, sink)
+        body.off('error', onEarlyError)
       }
       await handle.sync()
       await handle.close()

@@ -19,6 +19,8 @@ export type { BoundaryNotch } from './boundaries'
 export { porousAbsorption } from './absorbers'
 export { setupFlags } from './setup-flags'
 export type { SetupFlag } from './setup-flags'
+export { searchSubwoofers } from './subwoofers'
+export type { SubwooferSearchOptions, SubwooferLayout, SubwooferSearch } from './subwoofers'
 
 // additions
 export {
@@ -26,9 +28,13 @@ export {
   squareMetresToSquareFeet, squareFeetToSquareMetres, cubicMetresToCubicFeet, METRES_PER_FOOT, METRES_PER_INCH,
 } from './units'
 export {
-  modePressure, modePositionClass, modeCountEstimate, modalDensity, analyzeModes, compareRatios, modalResponse, rt60At,
+  modePressure, modePositionClass, modeCountEstimate, modalDensity, analyzeModes, compareRatios, modalResponse, rt60At, MODAL_CONVERGENCE_DB,
 } from './modes'
 export type { ModeAnalysis, ModeCoincidence, AxialGap, ThirdOctaveModeCount, RatioReference, ModalResponse, ModalResponseOptions, Rt60Spec } from './modes'
+export { subwooferCandidates, subwooferLayoutResponse } from './subwoofers'
+export { subwooferAdvice } from './subwoofer-advice'
+export type { SubwooferAdvice, SubwooferAdviceLayout } from './subwoofer-advice'
+export type { SubwooferLayoutResponse } from './subwoofers'
 export { searchPositions } from './position-search'
 export type { PositionSearch, PositionSearchOptions, SpreadAt } from './position-search'
 export {
@@ -43,7 +49,7 @@ export { MATERIALS, getMaterial, hasMaterial, materialForOpening, PANEL_FLOW_RES
 export type { Material, MaterialCategory } from './materials'
 export { porousAbsorptionRandom, porousOctaveBands, porousSurfaceImpedance, porousCharacteristics } from './absorbers'
 export type { PorousLayer, PorousModel, Complex } from './absorbers'
-export { SETUP_FLAG_IDS, FLAG_THRESHOLDS } from './setup-flags'
+export { SETUP_FLAG_IDS, FLAG_THRESHOLDS, lengthsInUnits } from './setup-flags'
 export type { SetupFlagInput } from './setup-flags'
 export { computeRoomAnalysis, ENGINE_VERSION } from './triage'
 export type {

@@ -260,7 +260,8 @@ export function analyzeModes(
 }
 
 const RATIO_REFERENCES: { name: string; ratio: [number, number, number]; source: string }[] = [
-  { name: 'Bolt', ratio: [1, 1.26, 1.59], source: 'Cox, D\'Antonio & Avis, JAES 52(6), 2004, room sizing' },
+  // 1 : 1.26 : 1.59 is 1 : 2^(1/3) : 2^(2/3), the cube-root-of-two proportion: labelled by what it is, not by a person
+  { name: 'Cube-root-of-two ratio 1 : ∛2 : ∛4', ratio: [1, 1.26, 1.59], source: '1 : 2^(1/3) : 2^(2/3); listed among room-sizing ratios by Cox, D\'Antonio & Avis, JAES 52(6), 2004 (from memory)' },
   { name: 'Sepmeyer A', ratio: [1, 1.14, 1.39], source: 'Sepmeyer, JAES 1965 (from memory)' },
   { name: 'Sepmeyer B', ratio: [1, 1.28, 1.54], source: 'Sepmeyer, JAES 1965 (from memory)' },
   { name: 'Sepmeyer C', ratio: [1, 1.6, 2.33], source: 'Sepmeyer, JAES 1965 (from memory)' },
@@ -329,7 +330,12 @@ export interface ModalResponseOptions {
   toHz?: number
   /** frequency points per octave, log-spaced (default 48) */
   pointsPerOctave?: number
-  /** modes summed up to this frequency, Hz (default 1.25 × toHz; higher modes change the spread by well under 1 dB) */
+  /**
+   * modes summed up to this frequency, Hz (default 3 × the higher of toHz and spreadToHz). Modes in its
+   * upper octave (modalMaxHz/2 … modalMaxHz) are weighted by a raised-cosine taper, so the truncated
+   * sum converges smoothly instead of oscillating with the cut-off; doubling the default changes the
+   * spread by less than `MODAL_CONVERGENCE_DB` in the test rooms.
+   */
   modalMaxHz?: number
   /** power smoothing width for the spread, octaves (default 1/6; 0 for none) */
   smoothingOctaves?: number
@@ -356,15 +362,41 @@ export interface ModalResponse {
   smoothingOctaves: number
 }
 
-/** @internal Frequency grid and per-mode transfer terms shared by the response and the position search. */
+/**
+ * Documented convergence of the modal sum: doubling `modalMaxHz` from its default moves the smoothed
+ * peak-to-null spread by less than this, dB (tests/unit/acoustics/modes.test.ts checks it).
+ */
+export const MODAL_CONVERGENCE_DB = 0.1
+
+/** Terms of the power series used for the modes far above the band (see `ModalSystem`). */
+const FAR_TERMS = 14
+
+/**
+ * @internal Frequency grid and per-mode transfer terms shared by the response and the position search.
+ * Modes up to `nearMaxHz` (1.5 × the top of the grid) are summed exactly, frequency by frequency
+ * (`hRe`/`hIm`); modes above it (`farCount` of them, indices after the near ones in `n`) through the
+ * power series H_m(ω) = −(g_m/K_m)·Σ_j ω^(2j)/a_m^(j+1), a_m = ω_m² + 2jδ_mω_m, which for
+ * ω²/|a_m| ≤ 0.44 and 14 terms is exact to about 1e-5 of each term. Weights (`sourceWeights`) cover
+ * both; `powerFromWeights` adds both.
+ */
 export interface ModalSystem {
   freqsHz: Float64Array
-  /** mode indices, flattened: nx, ny, nz per mode */
+  /** mode indices, flattened: nx, ny, nz per mode, the exactly summed modes first, then the far ones */
   n: Int32Array
+  /** modes summed exactly (with `hRe`/`hIm`) */
   modeCount: number
-  /** H_m(f) = (1/K_m) / (ω² − ω_m² − 2jδ_m·ω_m), mode-major: [m·F + f] */
+  /** modes summed through the far-mode series, after the exact ones in `n` */
+  farCount: number
+  /** H_m(f) = (g_m/K_m) / (ω² − ω_m² − 2jδ_m·ω_m), mode-major: [m·F + f] (g_m the taper, 1 below modalMaxHz/2) */
   hRe: Float64Array
   hIm: Float64Array
+  /** far-mode series coefficients −(g_m/K_m)·ω_ref^(2j)/a_m^(j+1), [m·FAR_TERMS + j] */
+  farRe: Float64Array
+  farIm: Float64Array
+  /** (ω_f/ω_ref)² per frequency, for the series */
+  u: Float64Array
+  nearMaxHz: number
+  modalMaxHz: number
   dims: [number, number, number]
   opts: Required<Omit<ModalResponseOptions, 'rt60' | 'celsius' | 'modalMaxHz' | 'spreadFromHz' | 'spreadToHz'>> & {
     spreadFromHz: number
@@ -391,7 +423,7 @@ export function buildModalSystem(room: RoomBox, options: ModalResponseOptions = 
   if (toHz <= fromHz) throw new RangeError(`toHz (${toHz} Hz) must lie above fromHz (${fromHz} Hz)`)
   const ppo = options.pointsPerOctave ?? 48
   assertPositive(ppo, 'pointsPerOctave')
-  const modalMaxHz = options.modalMaxHz ?? 1.25 * toHz
+  const modalMaxHz = options.modalMaxHz ?? 3 * Math.max(toHz, options.spreadToHz ?? toHz)
   assertPositive(modalMaxHz, 'modalMaxHz', 'Hz')
   const smoothingOctaves = options.smoothingOctaves ?? 1 / 6
   assertFinite(smoothingOctaves, 'smoothingOctaves')
@@ -406,9 +438,18 @@ export function buildModalSystem(room: RoomBox, options: ModalResponseOptions = 
   const freqsHz = new Float64Array(nPoints)
   for (let i = 0; i < nPoints; i++) freqsHz[i] = fromHz * (toHz / fromHz) ** (i / (nPoints - 1))
 
-  const modes = roomModes(room, { maxHz: modalMaxHz, celsius })
+  const c = speedOfSound(celsius)
+  const taperFrom = modalMaxHz / 2
+  // raised-cosine taper over the top octave of the summed modes (a smooth truncation: the hard cut-off's
+  // error oscillates and decays only slowly with the cut-off)
+  const taper = (hz: number) => (hz <= taperFrom ? 1 : 0.5 * (1 + Math.cos((Math.PI * (hz - taperFrom)) / (modalMaxHz - taperFrom))))
+  const nearMaxHz = Math.min(modalMaxHz, 1.5 * toHz)
+  const modes = roomModes(room, { maxHz: nearMaxHz, celsius })
   const M = modes.length
-  const n = new Int32Array(3 * M)
+  const far = farModes(room, c, nearMaxHz, modalMaxHz)
+  const FM = far.length / 3
+  const n = new Int32Array(3 * (M + FM))
+  n.set(far, 3 * M)
   const v = roomVolume(room)
   const wn2 = new Float64Array(M)
   const damp = new Float64Array(M) // 2·δ·ω_m
@@ -420,7 +461,7 @@ export function buildModalSystem(room: RoomBox, options: ModalResponseOptions = 
     damp[i] = 2 * ((3 * Math.LN10) / rt60At(rt60, m.hz)) * w
     // K = ∫ψ² dV = V · Π(1/2 for each non-zero index)
     const nonZero = (m.n[0] > 0 ? 1 : 0) + (m.n[1] > 0 ? 1 : 0) + (m.n[2] > 0 ? 1 : 0)
-    invK[i] = 2 ** nonZero / v
+    invK[i] = (taper(m.hz) * 2 ** nonZero) / v
   })
   const hRe = new Float64Array(nPoints * M)
   const hIm = new Float64Array(nPoints * M)
@@ -440,27 +481,91 @@ export function buildModalSystem(room: RoomBox, options: ModalResponseOptions = 
       hIm[base + f] = b * s
     }
   }
+  // far modes: 1/(ω² − a) = −Σ_j ω^(2j)/a^(j+1), in u = (ω/ω_ref)²
+  const wRef2 = (2 * Math.PI * toHz) ** 2
+  const u = new Float64Array(nPoints)
+  for (let f = 0; f < nPoints; f++) u[f] = w2s[f] / wRef2
+  const farRe = new Float64Array(FM * FAR_TERMS)
+  const farIm = new Float64Array(FM * FAR_TERMS)
+  const [lx, ly, lz] = roomDims(room)
+  for (let i = 0; i < FM; i++) {
+    const nx = far[3 * i], ny = far[3 * i + 1], nz = far[3 * i + 2]
+    const hz = (c / 2) * Math.sqrt((nx / lx) ** 2 + (ny / ly) ** 2 + (nz / lz) ** 2)
+    const w = 2 * Math.PI * hz
+    const nonZero = (nx > 0 ? 1 : 0) + (ny > 0 ? 1 : 0) + (nz > 0 ? 1 : 0)
+    const k = (taper(hz) * 2 ** nonZero) / v
+    // q = ω_ref²/a (complex), a = ω_m² + 2jδω_m
+    const aRe = (w * w) / wRef2
+    const aIm = (2 * ((3 * Math.LN10) / rt60At(rt60, hz)) * w) / wRef2
+    const d = aRe * aRe + aIm * aIm
+    const qRe = aRe / d, qIm = -aIm / d
+    // term j: −k·q^(j+1)/ω_ref² (the 1/ω_ref² is restored below so units match hRe)
+    let pRe = qRe, pIm = qIm
+    for (let j = 0; j < FAR_TERMS; j++) {
+      farRe[i * FAR_TERMS + j] = (-k * pRe) / wRef2
+      farIm[i * FAR_TERMS + j] = (-k * pIm) / wRef2
+      const tRe = pRe * qRe - pIm * qIm
+      pIm = pRe * qIm + pIm * qRe
+      pRe = tRe
+    }
+  }
   return {
     freqsHz,
     n,
     modeCount: M,
+    farCount: FM,
     hRe,
     hIm,
+    farRe,
+    farIm,
+    u,
+    nearMaxHz,
+    modalMaxHz,
     dims: roomDims(room),
     opts: { fromHz, toHz, pointsPerOctave: ppo, smoothingOctaves, spreadFromHz, spreadToHz },
   }
 }
 
-/** @internal Σ over sources of the mode shapes, per mode. */
-export function sourceWeights(sys: ModalSystem, sources: readonly Point[]): Float64Array {
-  const w = new Float64Array(sys.modeCount)
-  const [lx, ly, lz] = sys.dims
-  for (let i = 0; i < sys.modeCount; i++) {
-    let s = 0
-    for (const p of sources) {
-      s += Math.cos((sys.n[3 * i] * Math.PI * p.x) / lx) * Math.cos((sys.n[3 * i + 1] * Math.PI * p.y) / ly) * Math.cos((sys.n[3 * i + 2] * Math.PI * p.z) / lz)
+/** Mode indices (flattened nx, ny, nz) of every mode with loHz < f ≤ hiHz, in no particular order. */
+function farModes(room: RoomBox, c: number, loHz: number, hiHz: number): Int32Array {
+  if (hiHz <= loHz) return new Int32Array(0)
+  const { length: lx, width: ly, height: lz } = room
+  const kHi = (2 * hiHz) / c
+  const kLo2 = ((2 * loHz) / c) ** 2
+  const kHi2 = kHi * kHi * (1 + 1e-12)
+  const out: number[] = []
+  const nxMax = Math.floor(kHi * lx + 1e-9)
+  for (let nx = 0; nx <= nxMax; nx++) {
+    const ax = (nx / lx) ** 2
+    const nyMax = Math.floor(Math.sqrt(Math.max(0, kHi2 - ax)) * ly + 1e-9)
+    for (let ny = 0; ny <= nyMax; ny++) {
+      const axy = ax + (ny / ly) ** 2
+      const nzMax = Math.floor(Math.sqrt(Math.max(0, kHi2 - axy)) * lz + 1e-9)
+      for (let nz = 0; nz <= nzMax; nz++) {
+        const s2 = axy + (nz / lz) ** 2
+        if (s2 <= kLo2 * (1 + 1e-12) || s2 > kHi2) continue
+        out.push(nx, ny, nz)
+      }
     }
-    w[i] = s
+  }
+  return Int32Array.from(out)
+}
+
+/** @internal Σ over sources of the mode shapes, per mode (exact modes, then far modes). */
+export function sourceWeights(sys: ModalSystem, sources: readonly Point[]): Float64Array {
+  const total = sys.modeCount + sys.farCount
+  const w = new Float64Array(total)
+  const [lx, ly, lz] = sys.dims
+  let nMax = 0
+  for (let i = 0; i < sys.n.length; i++) if (sys.n[i] > nMax) nMax = sys.n[i]
+  const table = (x: number, l: number) => {
+    const t = new Float64Array(nMax + 1)
+    for (let k = 0; k <= nMax; k++) t[k] = Math.cos((k * Math.PI * x) / l)
+    return t
+  }
+  for (const p of sources) {
+    const tx = table(p.x, lx), ty = table(p.y, ly), tz = table(p.z, lz)
+    for (let i = 0; i < total; i++) w[i] += tx[sys.n[3 * i]] * ty[sys.n[3 * i + 1]] * tz[sys.n[3 * i + 2]]
   }
   return w
 }
@@ -481,8 +586,96 @@ export function powerFromWeights(sys: ModalSystem, weights: Float64Array): Float
       im[f] += w * hIm[base + f]
     }
   }
+  if (weights.length >= M + sys.farCount) {
+    const { aRe, aIm } = farSeries(sys, weights, 0, sys.farCount)
+    addSeries(sys, aRe, aIm, re, im)
+  }
   for (let f = 0; f < F; f++) re[f] = re[f] * re[f] + im[f] * im[f]
   return re
+}
+
+/** @internal Σ_m w_m·c_{m,j} over far modes [from, to) (weights indexed like `n`), per series term. */
+export function farSeries(sys: ModalSystem, weights: ArrayLike<number>, from: number, to: number, pick?: ArrayLike<number>) {
+  const aRe = new Float64Array(FAR_TERMS)
+  const aIm = new Float64Array(FAR_TERMS)
+  const M = sys.modeCount
+  for (let k = from; k < to; k++) {
+    const i = pick ? pick[k] : k
+    const w = weights[M + i]
+    if (Math.abs(w) < 1e-12) continue
+    const base = i * FAR_TERMS
+    for (let j = 0; j < FAR_TERMS; j++) {
+      aRe[j] += w * sys.farRe[base + j]
+      aIm[j] += w * sys.farIm[base + j]
+    }
+  }
+  return { aRe, aIm }
+}
+
+/** @internal re/im[f] += Σ_j a_j·u_f^j (Horner). */
+export function addSeries(sys: ModalSystem, aRe: Float64Array, aIm: Float64Array, re: Float64Array, im: Float64Array, offset = 0): void {
+  const F = sys.freqsHz.length
+  for (let f = 0; f < F; f++) {
+    const x = sys.u[f]
+    let sr = 0, si = 0
+    for (let j = FAR_TERMS - 1; j >= 0; j--) { sr = sr * x + aRe[j]; si = si * x + aIm[j] }
+    re[offset + f] += sr
+    im[offset + f] += si
+  }
+}
+
+/**
+ * @internal Fractional-octave power smoothing: at each grid frequency f the mean of |p|² over linear
+ * frequency between the band edges f·2^(∓b/2) (b = smoothingOctaves), the power taken as linear between
+ * grid points (trapezoidal rule); a band reaching past the grid is averaged over the part inside it.
+ * This is the band level of a constant-percentage filter with ideal edges, divided by the bandwidth.
+ * @see IEC 61260-1:2014 §3 (fractional-octave band edges); the average is the band power per Hz
+ */
+export function smoothPower(sys: ModalSystem, power: ArrayLike<number>, out: Float64Array = new Float64Array(power.length)): Float64Array {
+  const F = power.length
+  const fr = sys.freqsHz
+  const b = sys.opts.smoothingOctaves
+  if (b === 0 || F < 2) { for (let f = 0; f < F; f++) out[f] = power[f]; return out }
+  // cumulative trapezoid integral of power over frequency
+  const cum = new Float64Array(F)
+  for (let f = 1; f < F; f++) cum[f] = cum[f - 1] + 0.5 * (power[f] + power[f - 1]) * (fr[f] - fr[f - 1])
+  const { edgeIndex: ei, edgeHz: eh } = smoothingEdges(sys)
+  const integral = (k: number) => {
+    const i = ei[k]
+    const d = eh[k] - fr[i]
+    if (d <= 0 || i >= F - 1) return cum[i]
+    const h = fr[i + 1] - fr[i]
+    return cum[i] + power[i] * d + ((power[i + 1] - power[i]) * d * d) / (2 * h)
+  }
+  for (let f = 0; f < F; f++) {
+    const lo = eh[2 * f], hi = eh[2 * f + 1]
+    out[f] = (integral(2 * f + 1) - integral(2 * f)) / (hi - lo)
+  }
+  return out
+}
+
+const EDGES = new WeakMap<ModalSystem, { edgeIndex: Int32Array; edgeHz: Float64Array }>()
+/** Band edges of each grid point's smoothing band, clipped to the grid, and the grid point at or below each. */
+function smoothingEdges(sys: ModalSystem) {
+  let e = EDGES.get(sys)
+  if (e) return e
+  const fr = sys.freqsHz
+  const F = fr.length
+  const r = 2 ** (sys.opts.smoothingOctaves / 2)
+  const edgeIndex = new Int32Array(2 * F)
+  const edgeHz = new Float64Array(2 * F)
+  let lo = 0, hi = 0
+  for (let f = 0; f < F; f++) {
+    const a = Math.max(fr[0], fr[f] / r)
+    const z = Math.min(fr[F - 1], fr[f] * r)
+    while (lo < F - 1 && fr[lo + 1] <= a) lo++
+    while (hi < F - 1 && fr[hi + 1] <= z) hi++
+    edgeIndex[2 * f] = lo; edgeHz[2 * f] = a
+    edgeIndex[2 * f + 1] = hi; edgeHz[2 * f + 1] = z
+  }
+  e = { edgeIndex, edgeHz }
+  EDGES.set(sys, e)
+  return e
 }
 
 /** @internal Spread figures of a power curve on the system's grid. */
@@ -491,16 +684,13 @@ export function spreadOfPower(sys: ModalSystem, power: Float64Array): Omit<Modal
   let mean = 0
   for (let f = 0; f < F; f++) mean += power[f]
   mean = mean / F || Number.MIN_VALUE
-  const half = Math.round((sys.opts.smoothingOctaves * sys.opts.pointsPerOctave) / 2)
   const floor = mean * 1e-12
+  const smooth = smoothPower(sys, power)
   const levelDb: number[] = new Array(F)
   const smoothedDb: number[] = new Array(F)
   for (let f = 0; f < F; f++) {
     levelDb[f] = 10 * Math.log10(Math.max(power[f], floor) / mean)
-    let s = 0
-    let k = 0
-    for (let j = Math.max(0, f - half); j <= Math.min(F - 1, f + half); j++) { s += power[j]; k++ }
-    smoothedDb[f] = 10 * Math.log10(Math.max(s / k, floor) / mean)
+    smoothedDb[f] = 10 * Math.log10(Math.max(smooth[f], floor) / mean)
   }
   let lo = Infinity, hi = -Infinity, rawLo = Infinity, rawHi = -Infinity, peakHz = NaN, nullHz = NaN
   let sum = 0, sum2 = 0, count = 0
@@ -533,22 +723,20 @@ export function spreadOfPower(sys: ModalSystem, power: Float64Array): Omit<Modal
  * @internal Smoothed peak-to-null spread only (no per-point logarithms): the figure the position search
  * minimises, identical to `spreadOfPower(...).spreadDb`.
  */
-export function spreadDbOfPower(sys: ModalSystem, power: Float64Array, prefix: Float64Array): number {
+export function spreadDbOfPower(sys: ModalSystem, power: Float64Array, scratch: Float64Array): number {
   const F = power.length
-  prefix[0] = 0
-  for (let f = 0; f < F; f++) prefix[f + 1] = prefix[f] + power[f]
-  const mean = prefix[F] / F || Number.MIN_VALUE
+  let mean = 0
+  for (let f = 0; f < F; f++) mean += power[f]
+  mean = mean / F || Number.MIN_VALUE
   const floor = mean * 1e-12
-  const half = Math.round((sys.opts.smoothingOctaves * sys.opts.pointsPerOctave) / 2)
+  const smooth = smoothPower(sys, power, scratch.length >= F ? scratch : new Float64Array(F))
   const { spreadFromHz: a, spreadToHz: b } = sys.opts
   let lo = Infinity
   let hi = -Infinity
   for (let f = 0; f < F; f++) {
     const hz = sys.freqsHz[f]
     if (hz < a * (1 - 1e-9) || hz > b * (1 + 1e-9)) continue
-    const j0 = Math.max(0, f - half)
-    const j1 = Math.min(F - 1, f + half)
-    const s = Math.max((prefix[j1 + 1] - prefix[j0]) / (j1 - j0 + 1), floor)
+    const s = Math.max(smooth[f], floor)
     if (s > hi) hi = s
     if (s < lo) lo = s
   }

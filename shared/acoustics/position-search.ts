@@ -1,5 +1,5 @@
 import type { ModalResponseOptions, ModalSystem } from './modes'
-import { buildModalSystem, modalPower, sourceWeights, spreadDbOfPower } from './modes'
+import { addSeries, buildModalSystem, farSeries, modalPower, sourceWeights, spreadDbOfPower } from './modes'
 import type { Point, RoomBox } from './types'
 import { assertPointInRoom, assertPositive, assertRoom } from './validate'
 
@@ -36,7 +36,8 @@ export interface PositionSearch {
   }
   speakers: {
     best: { distanceFromFront: number; spreadDb: number }
-    current: { distanceFromFront: number; spreadDb: number }
+    /** distanceFromFront: the mean of the sources' distances; positions: each source today */
+    current: { distanceFromFront: number; spreadDb: number; positions: Point[] }
     scan: { distanceFromFront: number; spreadDb: number }[]
   }
   spreadBandHz: [number, number]
@@ -49,10 +50,11 @@ export interface PositionSearch {
  */
 function groupTransfer(sys: ModalSystem, weights: Float64Array, byY: boolean) {
   const keys = new Map<number, number>()
-  const groupOf = new Int32Array(sys.modeCount)
+  const total = sys.modeCount + sys.farCount
+  const groupOf = new Int32Array(total)
   const gx: number[] = []
   const gy: number[] = []
-  for (let i = 0; i < sys.modeCount; i++) {
+  for (let i = 0; i < total; i++) {
     const nx = sys.n[3 * i]
     const ny = byY ? sys.n[3 * i + 1] : 0
     const key = nx * 100000 + ny
@@ -76,6 +78,14 @@ function groupTransfer(sys: ModalSystem, weights: Float64Array, byY: boolean) {
       cRe[out + f] += w * hRe[src + f]
       cIm[out + f] += w * hIm[src + f]
     }
+  }
+  // far modes: their series summed per group, then evaluated on the grid once per group
+  const members: number[][] = Array.from({ length: G }, () => [])
+  for (let i = 0; i < sys.farCount; i++) members[groupOf[M + i]].push(i)
+  for (let g = 0; g < G; g++) {
+    if (members[g].length === 0) continue
+    const { aRe, aIm } = farSeries(sys, weights, 0, members[g].length, members[g])
+    addSeries(sys, aRe, aIm, cRe, cIm, g * F)
   }
   return { G, gx, gy, cRe, cIm, re: new Float64Array(F), im: new Float64Array(F) }
 }
@@ -111,7 +121,8 @@ function linspace(a: number, b: number, n: number): number[] {
  * Scan seat positions along the room's centre line (optionally across it too) and speaker distances
  * from the front wall for the smallest low-frequency peak-to-null spread (1/6-octave smoothed modal
  * response, as `modalResponse`). The seat keeps its ear height; the speakers keep their y and height
- * and all move to the same distance from the front wall.
+ * and all move to the same distance from the front wall. `speakers` are the bass sources: in a room
+ * with subwoofers the triage passes the subwoofers, and the speaker scan then moves those.
  * @param speakers the bass sources, driven in phase, metres
  * @param seat the current seat, metres
  */
@@ -155,8 +166,8 @@ export function searchPositionsWithSystem(
   const lz = sys.dims[2]
   const ly = sys.dims[1]
   const seatWeights = (y: number | null) => {
-    const w = new Float64Array(sys.modeCount)
-    for (let i = 0; i < sys.modeCount; i++) {
+    const w = new Float64Array(sys.modeCount + sys.farCount)
+    for (let i = 0; i < w.length; i++) {
       const cy = y === null ? 1 : Math.cos((sys.n[3 * i + 1] * Math.PI * y) / ly)
       w[i] = src[i] * cy * Math.cos((sys.n[3 * i + 2] * Math.PI * seat.z) / lz)
     }
@@ -181,8 +192,8 @@ export function searchPositionsWithSystem(
 
   // speaker scan: all speakers at the same distance from the front wall, receiver fixed at the seat
   const rec = sourceWeights(sys, [seat])
-  const spkWeights = new Float64Array(sys.modeCount)
-  for (let i = 0; i < sys.modeCount; i++) {
+  const spkWeights = new Float64Array(sys.modeCount + sys.farCount)
+  for (let i = 0; i < spkWeights.length; i++) {
     let s = 0
     for (const p of speakers) s += Math.cos((sys.n[3 * i + 1] * Math.PI * p.y) / ly) * Math.cos((sys.n[3 * i + 2] * Math.PI * p.z) / lz)
     spkWeights[i] = s * rec[i]
@@ -199,6 +210,7 @@ export function searchPositionsWithSystem(
   const currentSpeaker = {
     distanceFromFront: speakers.reduce((s, p) => s + p.x, 0) / speakers.length,
     spreadDb: currentSpread,
+    positions: speakers.map((p) => ({ x: p.x, y: p.y, z: p.z })),
   }
 
   return {

@@ -1,5 +1,5 @@
 import { porousOctaveBands } from './absorbers'
-import { getMaterial, materialForOpening } from './materials'
+import { PANEL_FLOW_RESISTIVITY, PANEL_POROUS_MODEL, getMaterial, materialForOpening } from './materials'
 import type { Furnishing, Opening, RoomBox, Surface, Treatment } from './types'
 import { OCTAVE_BANDS_HZ, SURFACES, furnishingArea, roomSurfaceArea, roomVolume, surfaceArea, treatmentSize, treatmentSurface } from './types'
 import { speedOfSound } from './units'
@@ -103,6 +103,9 @@ export interface ReverberationInput {
   celsius?: number
   /** relative humidity, % (default 50) */
   humidity?: number
+  /** the panel the targets' panel areas are worked out for (default 'porous-panel-50mm') and the surface it covers (default 'left') */
+  panelMaterialId?: string
+  panelSurface?: Surface
 }
 
 export interface ReverberationBand {
@@ -120,7 +123,18 @@ export interface RtTarget {
   rule: 'bs1116' | 'domestic'
   description: string
   /** per band, seconds */
-  bands: { hz: number; target: number; lower: number; upper: number; eyring: number; status: 'above' | 'within' | 'below'; extraAbsorptionM2: number }[]
+  bands: {
+    hz: number; target: number; lower: number; upper: number; eyring: number; status: 'above' | 'within' | 'below'
+    /** absorption area (metric sabins, m² of a perfect absorber) to add for the target */
+    extraAbsorptionM2: number
+    /**
+     * face area of the chosen panel (`panel`) that adds it: extraAbsorptionM2 / (α_panel − α_surface), the panel
+     * covering that much of the surface; null where the panel absorbs no more than the surface (or nothing is needed: 0)
+     */
+    panelAreaM2: number | null
+  }[]
+  /** the panel the areas are for and the surface it covers */
+  panel: { materialId: string; coversSurface: Surface; coversMaterialId: string }
 }
 
 export interface ReverberationAnalysis {
@@ -140,7 +154,7 @@ export function treatmentAlpha(t: Treatment, celsius = 20): (number | null)[] {
   if (t.materialId) return [...getMaterial(t.materialId, 'treatment material').alpha]
   if (t.thickness !== undefined && t.thickness !== 0) {
     assertPositive(t.thickness, 'treatment thickness', 'm')
-    const layer = { thickness: t.thickness, flowResistivity: t.flowResistivity ?? 10_000, airGap: t.airGap }
+    const layer = { thickness: t.thickness, flowResistivity: t.flowResistivity ?? PANEL_FLOW_RESISTIVITY, airGap: t.airGap, model: PANEL_POROUS_MODEL }
     return porousOctaveBands(layer, OCTAVE_BANDS_HZ, { celsius })
   }
   return OCTAVE_BANDS_HZ.map(() => null)
@@ -235,7 +249,21 @@ export function bandReverberation(input: ReverberationInput): ReverberationAnaly
   const low = bands.filter((b) => b.hz === 125 || b.hz === 250)
   const lowFrequencyRt = low.length ? low.reduce((s, b) => s + b.eyring, 0) / low.length : bands[0].eyring
   const k = (24 * Math.LN10) / c
-  const target = (rule: RtTarget['rule']): RtTarget => {
+  const panelId = input.panelMaterialId ?? 'porous-panel-50mm'
+  const coversSurface = input.panelSurface ?? 'left'
+  const panelAlpha = getMaterial(panelId, 'panel material').alpha
+  const coverAlpha = getMaterial(input.surfaces[coversSurface], `${coversSurface} material`).alpha
+  let neededFor: (b: (typeof bands)[number]) => number = () => 0
+  const extra = (b: (typeof bands)[number]) => Math.max(0, neededFor(b) - b.absorptionAreaM2)
+  const panelArea = (b: (typeof bands)[number]) => {
+    const e = extra(b)
+    if (e === 0) return 0
+    const i = (OCTAVE_BANDS_HZ as readonly number[]).indexOf(b.hz)
+    const ap = panelAlpha[i], as = coverAlpha[i]
+    if (ap === null || as === null || ap - as <= 0.02) return null
+    return e / (ap - as)
+  }
+  const target = (rule: RtTarget['rule']): Omit<RtTarget, 'panel'> => {
     const tm = 0.25 * Math.cbrt(v / 100)
     return {
       rule,
@@ -248,10 +276,12 @@ export function bandReverberation(input: ReverberationInput): ReverberationAnaly
         // Eyring solved for the mean absorption that gives the target: −S·ln(1 − ᾱ) = kV/T − 4mV
         const x = (k * v) / t - b.airAbsorptionAreaM2
         const needed = x > 0 ? sTotal * (1 - Math.exp(-x / sTotal)) : 0
+        neededFor = () => needed
         return {
           hz: b.hz, target: t, lower, upper, eyring: b.eyring,
           status: b.eyring > upper ? 'above' : b.eyring < lower ? 'below' : 'within',
-          extraAbsorptionM2: Math.max(0, needed - b.absorptionAreaM2),
+          extraAbsorptionM2: extra(b),
+          panelAreaM2: panelArea(b),
         }
       }),
     }
@@ -263,6 +293,6 @@ export function bandReverberation(input: ReverberationInput): ReverberationAnaly
     lowFrequencyRt,
     schroederHz: schroederFrequency(lowFrequencyRt, v),
     areas: SURFACES.map((s) => ({ surface: s, materialId: input.surfaces[s], areaM2: Math.max(0, area.get(s) ?? 0) })),
-    targets: { bs1116: target('bs1116'), domestic: target('domestic') },
+    targets: { bs1116: { ...target('bs1116'), panel: { materialId: panelId, coversSurface, coversMaterialId: input.surfaces[coversSurface] } }, domestic: { ...target('domestic'), panel: { materialId: panelId, coversSurface, coversMaterialId: input.surfaces[coversSurface] } } },
   }
 }

@@ -4,7 +4,7 @@ import { analyzeModes, modePressure } from './modes'
 import { reflectionPanel } from './reflections'
 import type { Opening, Point, RoomBox, Surface, Treatment } from './types'
 import { distance, inPlaneAxes, pointCoords, treatmentSize, treatmentSurface } from './types'
-import { speedOfSound } from './units'
+import { metresToFeetInches, speedOfSound } from './units'
 import { assertOpening, assertPointInRoom, assertRoom } from './validate'
 
 export interface SetupFlag {
@@ -30,6 +30,20 @@ export interface SetupFlagInput {
   /** optional: names used in messages, parallel to `speakers` */
   speakerLabels?: string[]
   celsius?: number
+  /** the listener's units for lengths in the messages (default 'metric'; 'imperial': feet and inches) */
+  units?: 'metric' | 'imperial'
+}
+
+/**
+ * A message's lengths in the listener's units: with 'imperial' every "N m" / "N.NN m" (not m², m³, ms)
+ * becomes feet and inches to the nearest half inch.
+ */
+export function lengthsInUnits(message: string, units: 'metric' | 'imperial' = 'metric'): string {
+  if (units !== 'imperial') return message
+  return message.replace(/(\d+(?:\.\d+)?) m(?![²³a-zA-Z])/g, (_, v: string) => {
+    const { feet, inches } = metresToFeetInches(parseFloat(v), 0.5)
+    return feet === 0 ? `${inches} in` : inches === 0 ? `${feet} ft` : `${feet} ft ${inches} in`
+  })
 }
 
 /** Every flag id this module can raise, in a stable order. */
@@ -121,7 +135,9 @@ export function setupFlags(input: SetupFlagInput): SetupFlag[] {
   const speakers = input.speakers
   const names = speakerNames(input)
   const flags: SetupFlag[] = []
-  const add = (id: (typeof SETUP_FLAG_IDS)[number], severity: SetupFlag['severity'], message: string) => flags.push({ id, severity, message })
+  const units = input.units ?? 'metric'
+  if (units !== 'metric' && units !== 'imperial') throw new RangeError(`units must be 'metric' or 'imperial': got ${String(units)}`)
+  const add = (id: (typeof SETUP_FLAG_IDS)[number], severity: SetupFlag['severity'], message: string) => flags.push({ id, severity, message: lengthsInUnits(message, units) })
 
   // --- seat and plan ---------------------------------------------------------------------------
   const frontMost = Math.max(...speakers.map((s) => s.x))

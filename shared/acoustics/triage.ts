@@ -17,7 +17,7 @@ import { speedOfSound } from './units'
 import { assertCelsius, assertPointInRoom, assertRoom } from './validate'
 
 /** Version of the engine's formulas and output shape; stored beside every snapshot. */
-export const ENGINE_VERSION = '1.1.0'
+export const ENGINE_VERSION = '1.2.0'
 
 export interface LabelledPoint extends Point {
   label: string
@@ -49,6 +49,8 @@ export interface AnalysisOptions {
   seatPositions?: number
   /** also search across the room with this many positions per row (default 0) */
   acrossPositions?: number
+  /** the listener's units for lengths in the setup-flag messages (default 'metric') */
+  units?: 'metric' | 'imperial'
 }
 
 /** Where a reflection meets its surface and what it meets there. */
@@ -99,6 +101,8 @@ export interface SeatAnalysis {
   point: Point
   /** labels of the sources used for the low-frequency figures */
   bassSources: string[]
+  /** what those sources are: the subwoofers when the room has any, else the main speakers; the position search moves these */
+  bassSourceKind: 'speakers' | 'subwoofers'
   /** modes below 150 Hz with the seat's relative pressure on each (−1…1) */
   lowModes: (RoomMode & { pressure: number; position: 'null' | 'peak' | 'between' })[]
   modalResponse: ModalResponse
@@ -234,6 +238,7 @@ export function computeRoomAnalysis(desc: RoomDescription, opts: AnalysisOptions
     speakerKinds: desc.speakers.map((s) => s.kind),
     speakerLabels: desc.speakers.map((s) => s.label),
     celsius,
+    units: opts.units,
   })
 
   const main = desc.seats[0]
@@ -261,7 +266,7 @@ export function computeRoomAnalysis(desc: RoomDescription, opts: AnalysisOptions
     notches,
     reverberation,
     flags,
-    seat: { label: main.label, point: pt(main), bassSources: bass.map((b) => b.label), lowModes, modalResponse, positionSearch },
+    seat: { label: main.label, point: pt(main), bassSources: bass.map((b) => b.label), bassSourceKind: desc.subwoofers && desc.subwoofers.length ? 'subwoofers' : 'speakers', lowModes, modalResponse, positionSearch },
   }
 }
 

@@ -3,7 +3,7 @@ import type { Treatment as EngineTreatment } from '../acoustics'
 import type { PlanTreatment } from '../schemas/plan'
 
 /** The porous model the engine uses for a treatment without a materials-table row. */
-export const POROUS_MODEL_SOURCE = 'porous model: Delany & Bazley (Applied Acoustics 3, 1970), random incidence by the Paris average'
+export const POROUS_MODEL_SOURCE = 'porous model: Miki (J. Acoust. Soc. Jpn (E) 11(1), 1990), random incidence by the Paris average'
 
 /**
  * The treatment as the engine takes it. A diffuser without a material row scatters rather than

@@ -17,14 +17,14 @@ export interface PlanRoom {
   treatments?: { type: string; surface: Surface; materialId?: string; thickness: number; airGap?: number; width: number; height: number; x: number; y: number; z: number; mounting?: string; label?: string }[]
 }
 
-/** Every change id of a plan, setup first then treatments in their list order. */
+/** Every change id of a plan, setup first (seat, speakers, subwoofers) then treatments in their list order. */
 export function changeIds(body: PlanBody): string[] {
-  return [...(body.seat ? ['seat'] : []), ...(body.speakers.length ? ['speakers'] : []), ...body.treatments.map((t) => t.id)]
+  return [...(body.seat ? ['seat'] : []), ...(body.speakers.length ? ['speakers'] : []), ...(body.subwoofers?.length ? ['subwoofers'] : []), ...body.treatments.map((t) => t.id)]
 }
 
 /**
  * A copy of the room with some of the plan's changes made (all of them by default): the main seat
- * moved, speakers moved by label, the plan's treatments added after the room's own. The input room
+ * moved, speakers and subwoofers moved by label, the plan's treatments added after the room's own. The input room
  * and plan are not changed.
  */
 export function applyPlan(room: PlanRoom, body: PlanBody, only?: readonly string[]): RoomDescription {
@@ -35,6 +35,11 @@ export function applyPlan(room: PlanRoom, body: PlanBody, only?: readonly string
     const to = moved.get(s.label)
     return to ? { ...s, x: to.x, y: to.y, z: to.z } : { ...s }
   })
+  const movedSubs = new Map(use('subwoofers') ? (body.subwoofers ?? []).map((s) => [s.label, s]) : [])
+  const subwoofers = (room.subwoofers ?? []).map((s) => {
+    const to = movedSubs.get(s.label)
+    return to ? { ...s, x: to.x, y: to.y, z: to.z } : { ...s }
+  })
   const existing: EngineTreatment[] = (room.treatments ?? []).map((t) => ({ ...t }))
   const added = body.treatments.filter((t) => use(t.id)).map(engineTreatment)
   return {
@@ -43,7 +48,7 @@ export function applyPlan(room: PlanRoom, body: PlanBody, only?: readonly string
     height: room.height,
     celsius: room.celsius,
     speakers,
-    subwoofers: (room.subwoofers ?? []).map((s) => ({ ...s })),
+    subwoofers,
     seats,
     openings: (room.openings ?? []).map((o) => ({ ...o })),
     surfaces: { ...room.surfaces },

@@ -7,6 +7,7 @@ import { treatmentAbsorption } from './absorption'
 import type { TreatmentAbsorption } from './absorption'
 import { insideRect } from './geometry'
 import { changeTitle, changeSummary } from './summary'
+import { predictSubwooferItem, type SubwooferItemPrediction } from './subwoofers'
 
 export type RtRule = 'domestic' | 'bs1116'
 
@@ -35,7 +36,7 @@ export interface EffectParts {
 
 export interface ChangePrediction {
   id: string
-  kind: 'seat' | 'speakers' | 'treatment'
+  kind: 'seat' | 'speakers' | 'subwoofers' | 'treatment'
   title: string
   /** what the change does, in plain words with the predicted figures */
   summary: string
@@ -90,6 +91,8 @@ export interface PlanPredictions {
   /** the room after each step of `order`, cumulatively */
   steps: { changeId: string; outcome: Outcome }[]
   effectMeasure: string
+  /** the plan's subwoofer item, when it has one (predicted beside the changes, see predictSubwooferItem) */
+  subwooferLayout?: SubwooferItemPrediction
 }
 
 /**
@@ -107,6 +110,9 @@ export interface PlanPredictions {
  */
 export const EFFECT_MEASURE =
   'Effect points (our weights, no published source): 2 per early reflection leaving the 20 ms window and 0.2 per dB it drops; 1 per dB less low-frequency spread at the seat; 1 per 0.02 s the reverberation time moves towards its target band; 5, 2 and 0.5 per problem, warning and note that clears. Seat and speaker moves are scored on today\'s room, treatments on the room after those moves.'
+
+/** The change ids that move the seat or a source (they are scored on today's room and come first). */
+export const isSetupId = (id: string) => id === 'seat' || id === 'speakers' || id === 'subwoofers'
 
 const SEVERITY_POINTS = { problem: 5, warning: 2, info: 0.5 } as const
 const BANDS_FOR_EXCESS = [125, 250, 500, 1000, 2000, 4000]
@@ -182,14 +188,14 @@ export function predictPlan(room: PlanRoom, body: PlanBody, opts: { rtTarget?: R
   const analyse = (only?: readonly string[]) => computeRoomAnalysis(applyPlan(room, body, only ?? []), PLAN_ANALYSIS_OPTIONS)
   const before = computeRoomAnalysis(applyPlan(room, body, []), PLAN_ANALYSIS_OPTIONS)
   const ids = changeIds(body)
-  const setupIds = ids.filter((id) => id === 'seat' || id === 'speakers')
+  const setupIds = ids.filter(isSetupId)
   const after = ids.length ? analyse(ids) : before
   const setupRoom = setupIds.length ? analyse(setupIds) : before
   const celsius = room.celsius ?? 20
   const absorption = body.treatments.map((t) => ({ changeId: t.id, ...treatmentAbsorption(t, celsius) }))
 
   const changes: ChangePrediction[] = ids.map((id) => {
-    const isSetup = id === 'seat' || id === 'speakers'
+    const isSetup = isSetupId(id)
     const base = isSetup ? before : setupRoom
     const alone = isSetup ? analyse([id]) : analyse([...setupIds, id])
     // a flag this change raises alone but the whole plan does not (a corner trap before its partner) is not held against it
@@ -207,7 +213,7 @@ export function predictPlan(room: PlanRoom, body: PlanBody, opts: { rtTarget?: R
     const abs = absorption.find((x) => x.changeId === id) ?? null
     const change: ChangePrediction = {
       id,
-      kind: isSetup ? (id as 'seat' | 'speakers') : 'treatment',
+      kind: isSetup ? (id as 'seat' | 'speakers' | 'subwoofers') : 'treatment',
       title: changeTitle(room, body, id),
       summary: '',
       effect: { points: eff.points, parts: eff.parts },
@@ -289,5 +295,6 @@ export function predictPlan(room: PlanRoom, body: PlanBody, opts: { rtTarget?: R
     order,
     steps,
     effectMeasure: EFFECT_MEASURE,
+    ...(body.subwooferLayout ? { subwooferLayout: predictSubwooferItem(room, body.subwooferLayout) } : {}),
   }
 }

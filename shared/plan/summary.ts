@@ -31,6 +31,7 @@ const flagList = (ids: string[]) => ids.map((id) => flagWords[id] ?? id.replace(
 export function changeTitle(room: PlanRoom, body: PlanBody, id: string): string {
   if (id === 'seat') return 'Move the main seat'
   if (id === 'speakers') return body.speakers.length === 1 ? `Move speaker ${body.speakers[0].label}` : `Move the speakers (${body.speakers.map((s) => s.label).join(', ')})`
+  if (id === 'subwoofers') return body.subwoofers.length === 1 ? `Move subwoofer ${body.subwoofers[0].label}` : `Move the subwoofers (${body.subwoofers.map((s) => s.label).join(', ')})`
   const t = body.treatments.find((x) => x.id === id)
   if (!t) return id
   return `${capitalise(t.label || treatmentTypeNames[t.type] || t.type)} on the ${surfaceWords[t.surface]}`
@@ -60,6 +61,12 @@ export function changeSummary(room: PlanRoom, body: PlanBody, c: ChangePredictio
       return from ? `${s.label} ${moveWords(from, s)}` : s.label
     })
     out.push(`Move speaker ${moves.join('; ')}.`)
+  } else if (c.id === 'subwoofers') {
+    const moves = body.subwoofers.map((s) => {
+      const from = (room.subwoofers ?? []).find((x) => x.label === s.label)
+      return from ? `${s.label} ${moveWords(from, s)}` : s.label
+    })
+    out.push(`Move subwoofer ${moves.join('; ')}.`)
   } else {
     const t = body.treatments.find((x) => x.id === c.id)
     if (t) {

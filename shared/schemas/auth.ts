@@ -23,11 +23,6 @@ export const registerSchema = z.object({
 })
 export type RegisterInput = z.infer<typeof registerSchema>
 
-export const createUserSchema = registerSchema.extend({
-  role: z.enum(['advisor', 'supervisor']),
-})
-export type CreateUserInput = z.infer<typeof createUserSchema>
-
 export const userSchema = z.object({
   id: z.string().uuid(),
   email: z.string(),
@@ -45,3 +40,31 @@ export const preferencesSchema = z.object({
 })
 export type Preferences = z.infer<typeof preferencesSchema>
 export const updatePreferencesSchema = preferencesSchema.partial().refine((v) => Object.keys(v).length > 0, 'nothing to change')
+
+/** A new password (change or reset): the same rules as at sign-up. */
+export const newPasswordSchema = passwordSchema
+
+/** Changing the password while signed in needs the current one. */
+export const changePasswordSchema = z
+  .object({
+    currentPassword: z.string().min(1, 'enter your current password').max(200),
+    newPassword: newPasswordSchema,
+  })
+  .refine((v) => v.currentPassword !== v.newPassword, { message: 'choose a password different from the current one', path: ['newPassword'] })
+export type ChangePasswordInput = z.infer<typeof changePasswordSchema>
+
+/** "Forgot password?": the address to send a link to. The answer is the same whether or not it has an account. */
+export const passwordResetRequestSchema = z.object({ email: emailSchema })
+export type PasswordResetRequestInput = z.infer<typeof passwordResetRequestSchema>
+
+/** Reset tokens are 32 random bytes, base64url (43 characters). */
+export const passwordResetTokenSchema = z.string().regex(/^[A-Za-z0-9_-]{43}$/, 'this link is incomplete; open it from the e-mail again')
+
+export const passwordResetSchema = z.object({
+  token: passwordResetTokenSchema,
+  password: newPasswordSchema,
+})
+export type PasswordResetInput = z.infer<typeof passwordResetSchema>
+
+/** The one answer to a reset request, for every address. */
+export const passwordResetRequestedSchema = z.object({ message: z.string() })

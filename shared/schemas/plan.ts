@@ -25,7 +25,7 @@ export const planTreatmentSchema = z.object({
   /** metres: the absorbing layer's thickness (a diffuser's depth) */
   thickness: z.number().finite().min(0).max(1.5),
   airGap: z.number().finite().min(0).max(1).optional(),
-  /** Pa·s/m², for the porous model (default 10 000) */
+  /** Pa·s/m², for the porous model (default 36 000, the engine's PANEL_FLOW_RESISTIVITY) */
   flowResistivity: z.number().finite().min(1000).max(200_000).optional(),
   width: z.number().finite().gt(0, 'width must be more than 0 m').max(20),
   height: z.number().finite().gt(0, 'height must be more than 0 m').max(20),
@@ -43,7 +43,19 @@ export type PlanTreatmentInput = z.input<typeof planTreatmentSchema>
 
 export const planSpeakerMoveSchema = planPointSchema.extend({ label: z.string().trim().min(1).max(40) })
 
-/** The content of one plan version. Change ids: 'seat', 'speakers' and each treatment's id. */
+/**
+ * Subwoofers the plan places (a layout of the subwoofer search, adopted as it is or edited): where
+ * each stands and its relative level, 0 dB for the loudest. Predicted on its own (seat-to-seat
+ * variation and spread before and after), beside the changes below.
+ */
+export const planSubwoofersSchema = z.object({
+  positions: z.array(planPointSchema).min(1, 'place at least one subwoofer').max(4),
+  gainsDb: z.array(z.number().finite().min(-30, 'a subwoofer turned down more than 30 dB is as good as off').max(0, 'levels are relative to the loudest: 0 dB or below')).max(4),
+  note: z.string().max(2000).default(''),
+})
+export type PlanSubwoofers = z.output<typeof planSubwoofersSchema>
+
+/** The content of one plan version. Change ids: 'seat', 'speakers', 'subwoofers' and each treatment's id. */
 export const planBodySchema = z.object({
   /** where the main seat should go (null: stays) */
   seat: planPointSchema.nullable().default(null),
@@ -51,21 +63,26 @@ export const planBodySchema = z.object({
   /** new positions of the speakers that move (by label; others stay) */
   speakers: z.array(planSpeakerMoveSchema).max(16).default([]),
   speakersNote: z.string().max(2000).default(''),
+  /** new positions of the subwoofers that move (by label; others stay) */
+  subwoofers: z.array(planSpeakerMoveSchema).max(8).default([]),
+  subwoofersNote: z.string().max(2000).default(''),
   treatments: z.array(planTreatmentSchema).max(60).default([]),
   /** markdown, shown to the listener */
   notes: z.string().max(20_000).default(''),
   /** the advisor's order of the changes (ids); empty: biggest effect first */
   order: z.array(z.string().max(40)).max(80).default([]),
+  /** a subwoofer layout adopted from the subwoofer search (predicted on its own, not an ordered change) */
+  subwooferLayout: planSubwoofersSchema.optional(),
 })
 export type PlanBody = z.output<typeof planBodySchema>
 export type PlanBodyInput = z.input<typeof planBodySchema>
 
 /** Checks against the room: ids unique, order names existing changes, speakers exist. */
-export function planIssues(body: PlanBody, room: { length: number; width: number; height: number; speakers: { label: string }[] }): { path: string; message: string }[] {
+export function planIssues(body: PlanBody, room: { length: number; width: number; height: number; speakers: { label: string }[]; subwoofers?: { label: string }[] }): { path: string; message: string }[] {
   const issues: { path: string; message: string }[] = []
   const ids = new Set<string>()
   body.treatments.forEach((t, i) => {
-    if (ids.has(t.id) || t.id === 'seat' || t.id === 'speakers') issues.push({ path: `treatments.${i}.id`, message: `the id "${t.id}" is used twice` })
+    if (ids.has(t.id) || t.id === 'seat' || t.id === 'speakers' || t.id === 'subwoofers') issues.push({ path: `treatments.${i}.id`, message: `the id "${t.id}" is used twice` })
     ids.add(t.id)
     if (t.x > room.length) issues.push({ path: `treatments.${i}.x`, message: `x = ${t.x} m lies beyond the length ${room.length} m` })
     if (t.y > room.width) issues.push({ path: `treatments.${i}.y`, message: `y = ${t.y} m lies beyond the width ${room.width} m` })
@@ -75,16 +92,32 @@ export function planIssues(body: PlanBody, room: { length: number; width: number
   body.speakers.forEach((s, i) => {
     if (!labels.has(s.label)) issues.push({ path: `speakers.${i}.label`, message: `the room has no speaker "${s.label}"` })
   })
+  const subLabels = new Set((room.subwoofers ?? []).map((s) => s.label))
+  body.subwoofers.forEach((s, i) => {
+    if (!subLabels.has(s.label)) issues.push({ path: `subwoofers.${i}.label`, message: `the room has no subwoofer "${s.label}"` })
+  })
   const points: [string, { x: number; y: number; z: number }][] = [
     ...(body.seat ? [['seat', body.seat] as [string, { x: number; y: number; z: number }]] : []),
     ...body.speakers.map((s, i) => [`speakers.${i}`, s] as [string, { x: number; y: number; z: number }]),
+    ...body.subwoofers.map((s, i) => [`subwoofers.${i}`, s] as [string, { x: number; y: number; z: number }]),
   ]
   for (const [path, p] of points) {
     if (p.x > room.length) issues.push({ path: `${path}.x`, message: `x = ${p.x} m lies beyond the length ${room.length} m` })
     if (p.y > room.width) issues.push({ path: `${path}.y`, message: `y = ${p.y} m lies beyond the width ${room.width} m` })
     if (p.z > room.height) issues.push({ path: `${path}.z`, message: `z = ${p.z} m lies above the height ${room.height} m` })
   }
-  const known = new Set(['seat', 'speakers', ...ids])
+  if (body.subwooferLayout) {
+    if (body.subwooferLayout.gainsDb.length !== body.subwooferLayout.positions.length) {
+      issues.push({ path: 'subwooferLayout.gainsDb', message: `give one level per subwoofer (${body.subwooferLayout.positions.length})` })
+    }
+    body.subwooferLayout.positions.forEach((p, i) => {
+      const path = `subwooferLayout.positions.${i}`
+      if (p.x > room.length) issues.push({ path: `${path}.x`, message: `x = ${p.x} m lies beyond the length ${room.length} m` })
+      if (p.y > room.width) issues.push({ path: `${path}.y`, message: `y = ${p.y} m lies beyond the width ${room.width} m` })
+      if (p.z > room.height) issues.push({ path: `${path}.z`, message: `z = ${p.z} m lies above the height ${room.height} m` })
+    })
+  }
+  const known = new Set(['seat', 'speakers', 'subwoofers', ...ids])
   body.order.forEach((id, i) => { if (!known.has(id)) issues.push({ path: `order.${i}`, message: `no change has the id "${id}"` }) })
   return issues
 }

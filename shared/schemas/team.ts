@@ -1,5 +1,5 @@
 import { z } from 'zod'
-import { emailSchema, passwordSchema } from './auth'
+import { emailSchema, passwordSchema, type Role } from './auth'
 
 export const staffRoles = ['advisor', 'supervisor'] as const
 export const staffRoleSchema = z.enum(staffRoles)
@@ -23,6 +23,25 @@ export const acceptInvitationSchema = z.object({
 export type AcceptInvitationInput = z.infer<typeof acceptInvitationSchema>
 
 export const roleChangeSchema = z.object({ role: staffRoleSchema })
+
+/** Any account as the people list shows it (listeners too). `openCases`: assigned ones for staff, their own for listeners. */
+export interface AccountSummary {
+  id: string
+  name: string
+  email: string
+  role: Role
+  active: boolean
+  createdAt: string
+  openCases: number
+}
+
+export const listenerQuerySchema = z.object({
+  search: z.string().trim().max(120).optional().transform((s) => s || undefined),
+  active: z.enum(['true', 'false']).optional().transform((v) => (v === undefined ? undefined : v === 'true')),
+  page: z.coerce.number().int().min(1).max(10_000).default(1),
+  pageSize: z.coerce.number().int().min(1).max(100).default(25),
+})
+export type ListenerQuery = z.output<typeof listenerQuerySchema>
 
 export interface TeamMember {
   id: string
@@ -56,6 +75,11 @@ export const auditActions = [
   'member.reactivated',
   'member.role_changed',
   'targets.changed',
+  'snippet.team_created',
+  'snippet.team_changed',
+  'snippet.team_deleted',
+  'password.changed',
+  'password.reset',
 ] as const
 export type AuditAction = (typeof auditActions)[number]
 
@@ -67,6 +91,11 @@ export const auditActionLabels: Record<AuditAction, string> = {
   'member.reactivated': 'Account switched back on',
   'member.role_changed': 'Role changed',
   'targets.changed': 'Response targets changed',
+  'snippet.team_created': 'Team snippet added',
+  'snippet.team_changed': 'Team snippet edited',
+  'snippet.team_deleted': 'Team snippet removed',
+  'password.changed': 'Password changed',
+  'password.reset': 'Password reset by e-mail link',
 }
 
 const instant = z.string().datetime({ offset: true, message: 'an ISO date-time such as 2025-03-03T00:00:00Z' })

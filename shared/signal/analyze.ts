@@ -2,7 +2,7 @@
  * Analysis of one impulse response: the engine's `analyzeImpulseResponse` contract
  * and the fuller `analyzeMeasurement` behind the case page's plots.
  */
-import { butterworthBandpass, filterSos, octaveBands, thirdOctaveBands } from './bands'
+import { filterSos, octaveBandFilter, octaveBands, thirdOctaveBands } from './bands'
 import { analyzeDecay, round, type DecayFigures } from './decay'
 import {
   DEFAULT_REFLECTION_WINDOW,
@@ -56,7 +56,7 @@ interface BandDecay extends DecayFigures {
 
 function decays(samples: ArrayLike<number>, sampleRate: number, onset: number, curvePoints: number): { bands: BandDecay[]; broadband: DecayFigures } {
   const bands = usableOctaves(sampleRate).map((band) => {
-    const filtered = filterSos(samples, butterworthBandpass(band.lowHz, band.highHz, sampleRate, 3))
+    const filtered = filterSos(samples, octaveBandFilter(band, sampleRate))
     const d = analyzeDecay(filtered, sampleRate, onset, curvePoints)
     const t = d.t30 ?? d.t20 ?? d.edt
     return { centerHz: band.nominalHz, ...d, filterLimited: t !== null && (band.highHz - band.lowHz) * t < 16 }

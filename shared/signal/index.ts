@@ -31,6 +31,9 @@ export {
   octaveBands,
   thirdOctaveBands,
   butterworthBandpass,
+  octaveBandFilter,
+  class1OctaveLimits,
+  CLASS1_OCTAVE_MASK,
   butterworthLowpass,
   sosMagnitude,
   filterSos,
@@ -62,3 +65,6 @@ export type { PowerSpectrum, SmoothedResponse, SmoothingFraction, SpectralExtrem
 
 export { lowFrequencyDecay } from './low-frequency'
 export type { LowFrequencyDecay } from './low-frequency'
+
+export { explainLowFrequencyPeaks, describeLowFrequencyFeature, modeName, modeFrequencyTolerance, LOW_FREQUENCY_MATCH_TOLERANCE } from './low-frequency-peaks'
+export type { LowFrequencyDiagnosis, LowFrequencyFeature, LowFrequencyCause, LowFrequencyMeasurement, LowFrequencyPeakOptions, SourcedLowFrequencyDiagnosis } from './low-frequency-peaks'

@@ -9,6 +9,7 @@ import { MeasurementFileError, type MeasurementWarning } from './errors'
 import { parseFrequencyResponseBytes } from './frequency-response'
 import { smoothedResponse, spectrumFromPoints, type SmoothedResponse, type SpectralExtremum } from './spectrum'
 import { decodeWav, type ChannelLabel, type WavEncoding } from './wav'
+import type { SourcedLowFrequencyDiagnosis } from './low-frequency-peaks'
 
 export type MeasurementKind = 'impulse-response' | 'frequency-response'
 
@@ -17,7 +18,8 @@ export interface ImpulseResponseFileAnalysis {
   sampleRate: number
   encoding: WavEncoding
   durationS: number
-  channels: (MeasurementAnalysis & { label: ChannelLabel })[]
+  /** lowFrequencyDiagnosis: added by the server where the case's room is known (null: the diagnosis could not be made) */
+  channels: (MeasurementAnalysis & { label: ChannelLabel; lowFrequencyDiagnosis?: SourcedLowFrequencyDiagnosis | null })[]
   /** stereo files only: left − right per one-third-octave band */
   leftRight: LeftRightComparison | null
   warnings: MeasurementWarning[]
@@ -32,6 +34,8 @@ export interface FrequencyResponseFileAnalysis {
   /** the file's curve smoothed 1/1 … 1/24 octave on a 24-per-octave grid within its own range */
   response: SmoothedResponse
   lowFrequency: { peaks: SpectralExtremum[]; nulls: SpectralExtremum[]; spreadDb: number } | null
+  /** added by the server where the case's room is known */
+  lowFrequencyDiagnosis?: SourcedLowFrequencyDiagnosis | null
   warnings: MeasurementWarning[]
 }
 

@@ -1,4 +1,6 @@
-import { userSchema, type LoginInput, type RegisterInput, type User } from '../../shared/schemas/auth'
+import {
+  passwordResetRequestedSchema, userSchema, type ChangePasswordInput, type LoginInput, type PasswordResetInput, type RegisterInput, type User,
+} from '../../shared/schemas/auth'
 import { ApiRequestError, api, forgetCsrfToken } from './client'
 
 /** The signed-in user, or null when there is no session. */
@@ -34,3 +36,14 @@ export async function logout(): Promise<void> {
   }
   forgetCsrfToken()
 }
+
+/** 400 'bad_current_password' (field currentPassword) when the current password is wrong; the other sessions end. */
+export const changePassword = (input: ChangePasswordInput) => api.post<{ sessionsEnded: number }>('/api/auth/password', input)
+
+/** Always the same answer, whether or not the address has an account; 429 when asked too often. */
+export async function requestPasswordReset(email: string): Promise<string> {
+  return (await api.post('/api/auth/password-reset/request', { email }, { schema: passwordResetRequestedSchema, notifyUnauthorized: false })).message
+}
+
+/** Uses the e-mailed link once; 410 'link_gone' for a used, replaced or expired one. Every session of the account ends. */
+export const resetPassword = (input: PasswordResetInput) => api.post<void>('/api/auth/password-reset', input, { notifyUnauthorized: false })

@@ -49,8 +49,11 @@ export async function listMyCases(): Promise<CaseSummary[]> {
   return (await api.get<{ rows: CaseSummary[]; total: number }>('/api/cases')).rows
 }
 
+/** One page of the queue: `total` is counted up to a cap; `totalCapped` says there are more ("200+"). */
+export interface QueueAnswer { rows: QueueRow[]; total: number; totalCapped?: boolean }
+
 /** One page of the team's queue; `status` goes as a comma-separated list. */
-export function queuePage(query: Partial<QueueQuery>): Promise<{ rows: QueueRow[]; total: number }> {
+export function queuePage(query: Partial<QueueQuery>): Promise<QueueAnswer> {
   return api.get('/api/cases', {
     query: {
       scope: query.scope,

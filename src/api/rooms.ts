@@ -1,6 +1,7 @@
 import { z } from 'zod'
 import { roomSchema, roomSummarySchema, type Room, type RoomInput, type RoomRecord, type RoomSummary } from '../../shared/schemas/room'
 import { api } from './client'
+import { subwooferAdviceSchema, type SubwooferAdviceShape } from '../../shared/schemas/subwoofers'
 
 const roomRecordSchema: z.ZodType<RoomRecord> = z.object({
   id: z.string(),
@@ -32,4 +33,9 @@ export function createRoom(room: Room | RoomInput): Promise<RoomRecord> {
 /** Saves a new revision of a room; older revisions stay readable. */
 export function saveRoom(id: string, room: Room | RoomInput): Promise<RoomRecord> {
   return api.put(`/api/rooms/${encodeURIComponent(id)}`, room, { schema: roomRecordSchema })
+}
+
+/** Where 1, 2 and 4 subwoofers should stand for every seat of the room as described (searched on the server's worker pool). */
+export function searchSubwoofers(room: Room | RoomInput, counts?: number[]): Promise<SubwooferAdviceShape> {
+  return api.post('/api/rooms/subwoofers', { room, counts }, { schema: subwooferAdviceSchema })
 }

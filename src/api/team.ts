@@ -1,6 +1,6 @@
 import type { User } from '../../shared/schemas/auth'
 import type {
-  AcceptInvitationInput, AuditEntry, AuditQuery, Invitation, InvitationPreview, InviteInput, StaffRole, TeamMember,
+  AccountSummary, AcceptInvitationInput, AuditEntry, AuditQuery, Invitation, InvitationPreview, InviteInput, StaffRole, TeamMember,
 } from '../../shared/schemas/team'
 import { api, forgetCsrfToken } from './client'
 
@@ -15,8 +15,11 @@ export async function listInvitations(): Promise<Invitation[]> {
 /** 409 'email_taken' when the address already has an account. */
 export const invite = (input: InviteInput) => api.post<Invitation>('/api/team/invitations', input)
 export const revokeInvitation = (id: string) => api.delete<void>(`/api/team/invitations/${encodeURIComponent(id)}`)
-export const deactivate = (id: string) => api.post<TeamMember>(`${member(id)}/deactivate`)
-export const reactivate = (id: string) => api.post<TeamMember>(`${member(id)}/reactivate`)
+/** Any account, listeners too: its sessions and live connections end at once. */
+export const deactivate = (id: string) => api.post<AccountSummary>(`${member(id)}/deactivate`)
+export const reactivate = (id: string) => api.post<AccountSummary>(`${member(id)}/reactivate`)
+export const listListeners = (query: { search?: string; page?: number }) =>
+  api.get<{ listeners: AccountSummary[]; total: number }>('/api/team/listeners', { query })
 export const changeRole = (id: string, role: StaffRole) => api.put<TeamMember>(`${member(id)}/role`, { role })
 
 /** 404 for an unknown link, 410 'link_gone' for a used, withdrawn or expired one. */

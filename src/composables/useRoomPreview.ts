@@ -15,7 +15,7 @@ export interface PlanReflectionPair {
  * is invalid; the last good analysis then stays on screen, marked stale.
  * The plan's reflection points come from the engine at once, on every change, so dragging stays live.
  */
-export function useRoomPreview(source: () => Room | null, opts: { delayMs?: number } = {}) {
+export function useRoomPreview(source: () => Room | null, opts: { delayMs?: number; units?: () => 'metric' | 'imperial' } = {}) {
   const delayMs = opts.delayMs ?? 100
   const analysis = shallowRef<RoomAnalysis | null>(null)
   const analysedRoom = shallowRef<Room | null>(null)
@@ -33,7 +33,7 @@ export function useRoomPreview(source: () => Room | null, opts: { delayMs?: numb
         engineError.value = `This room is beyond what Roomwright analyses: ${beyond[0].message}`
         return
       }
-      analysis.value = computeRoomAnalysis(room)
+      analysis.value = computeRoomAnalysis(room, { units: opts.units?.() ?? 'metric' })
       analysedRoom.value = room
       engineError.value = null
     } catch (error) {

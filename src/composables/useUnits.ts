@@ -44,7 +44,7 @@ export function lengthFieldText(metres: number, units: UnitSystem): string {
 }
 
 const FEET = /(-?\d+(?:[.,]\d+)?)\s*(?:ft|feet|foot|')/i
-const INCHES = /(-?\d+(?:[.,]\d+)?)\s*(?:in|inch|inches|"|'')/i
+const INCHES = /(-?\d+(?:[.,]\d+)?)\s*(?:inches|inch|in|"|'')/i
 const NUMBER = /^-?\d+(?:[.,]\d*)?$|^-?[.,]\d+$/
 
 /**
@@ -80,6 +80,24 @@ export function parseLength(text: string, units: UnitSystem): number | null {
   const ft = feet ? num(feet[1]) : 0
   const inch = inches ? num(inches[1]) : bareInches
   return ft * METRES_PER_FOOT + inch * METRES_PER_INCH
+}
+
+/**
+ * A validation message (the shared schemas speak metres: "x = 7.2 m lies beyond the length 6.35 m")
+ * in the reader's unit: every "<number> m" becomes feet and inches in imperial; metric is unchanged.
+ */
+export function messageInUnits(message: string, units: UnitSystem): string {
+  if (units === 'metric') return message
+  return message
+    .replace(/(-?\d+(?:\.\d+)?) m\b(?![²³])/g, (_, n: string) => formatLength(Number(n), units))
+    .replace(/a number of metres/g, 'a length')
+}
+
+/** What a bare number in a length field means, and the other forms it takes. */
+export function lengthFieldHint(units: UnitSystem): string {
+  return units === 'metric'
+    ? 'A plain number is metres; 425 cm and 4250 mm work too.'
+    : 'A plain number is feet; 12\' 6", 12 ft 6 in, 12.5 ft and 150 in work too.'
 }
 
 const SQ_FT_PER_M2 = 1 / (METRES_PER_FOOT * METRES_PER_FOOT)

@@ -36,6 +36,8 @@ export const routeNames = [
   'team',
   'audit-log',
   'set-password',
+  'forgot-password',
+  'reset-password',
   'account',
   'mailbox',
   'not-found',
@@ -199,6 +201,19 @@ export function buildRoutes(): NamedRoute[] {
       name: 'set-password',
       component: () => import('../pages/SetPasswordPage.vue'),
       meta: { title: 'Set your password', public: true },
+    },
+    {
+      path: '/forgot-password',
+      name: 'forgot-password',
+      component: () => import('../pages/ForgotPasswordPage.vue'),
+      meta: { title: 'Forgot password', public: true },
+    },
+    {
+      // The link in a password-reset e-mail (server/services/passwords.ts resetPasswordUrl); the token is in the #fragment.
+      path: '/reset-password',
+      name: 'reset-password',
+      component: () => import('../pages/ResetPasswordPage.vue'),
+      meta: { title: 'Choose a new password', public: true },
     },
     {
       path: '/guide/measuring',

@@ -76,6 +76,7 @@ const STATUS_KINDS = new Set(['status', 'reopened', 'assigned', 'claimed', 'unas
 const MESSAGE_KINDS = new Set(['message', 'note', 'ask'])
 const FILE_KINDS = new Set(['file', 'analysis', 'file-analysed'])
 const TRIAGE_KINDS = new Set(['triage', 'room-revised'])
+const PLAN_KINDS = new Set(['plan-sent', 'plan-saved'])
 
 /** The listener's case list, and the one case open on screen with its room, triage, thread, files and history. */
 export const useCasesStore = defineStore('cases', () => {
@@ -89,6 +90,9 @@ export const useCasesStore = defineStore('cases', () => {
   const messages = section<CaseMessage[]>([])
   const files = section<CaseFile[]>([])
   const events = section<SequencedEvent[]>([])
+
+  /** Counts plan events seen live, so the plan on screen reloads when a version is saved or sent. */
+  const planChanges = ref(0)
 
   const lastSeq = computed(() => events.data.value.at(-1)?.seq)
   const status = computed<CaseStatus | null>(() => detail.data.value?.status ?? null)
@@ -145,7 +149,12 @@ export const useCasesStore = defineStore('cases', () => {
       for (const part of [detail, triage, triageHistory, room, messages, files, events]) part.reset()
       currentId.value = id
     }
-    await Promise.all([refreshDetail(), refreshTriage(), refreshMessages(), refreshFiles(), refreshEvents()])
+    // A draft has no triage yet (it is computed on submission): ask for it only once the case is sent.
+    const triageOnceSent = async () => {
+      await refreshDetail()
+      if (isCurrent(id) && detail.data.value && detail.data.value.status !== 'draft') await refreshTriage()
+    }
+    await Promise.all([triageOnceSent(), refreshMessages(), refreshFiles(), refreshEvents()])
   }
 
   function close(id: string): void {
@@ -174,8 +183,10 @@ export const useCasesStore = defineStore('cases', () => {
     const jobs: Promise<void>[] = []
     if (kinds.some((k) => STATUS_KINDS.has(k))) jobs.push(refreshDetail())
     if (kinds.some((k) => MESSAGE_KINDS.has(k))) jobs.push(refreshMessages())
-    if (kinds.some((k) => FILE_KINDS.has(k))) jobs.push(refreshFiles())
+    // A reply can bring files with it: the team's uploads become visible to the listener only then.
+    if (kinds.some((k) => FILE_KINDS.has(k) || MESSAGE_KINDS.has(k))) jobs.push(refreshFiles())
     if (kinds.some((k) => TRIAGE_KINDS.has(k))) jobs.push(refreshTriage(), refreshDetail())
+    if (kinds.some((k) => PLAN_KINDS.has(k))) planChanges.value++
     await Promise.all(jobs)
   }
 
@@ -236,6 +247,7 @@ export const useCasesStore = defineStore('cases', () => {
     files,
     events,
     lastSeq,
+    planChanges,
     status,
     open,
     close,

@@ -33,6 +33,8 @@ export const useQueueStore = defineStore('queue', () => {
   const filters = reactive<QueueFilters>(defaultFilters())
   const rows = shallowRef<QueueRow[]>([])
   const total = ref(0)
+  /** The server counted up to `total` and stopped: there are more (shown as "200+"). */
+  const totalCapped = ref(false)
   const loading = ref(false)
   const loaded = ref(false)
   const error = shallowRef<ApiRequestError | null>(null)
@@ -53,11 +55,12 @@ export const useQueueStore = defineStore('queue', () => {
       if (mine !== sequence) return
       rows.value = answer.rows
       total.value = answer.total
+      totalCapped.value = answer.totalCapped === true
       error.value = null
       loaded.value = true
       refreshedAt.value = Date.now()
       const lastPage = Math.max(1, Math.ceil(answer.total / filters.pageSize))
-      if (filters.page > lastPage) {
+      if (filters.page > lastPage && !totalCapped.value) {
         filters.page = lastPage
         void load()
       }
@@ -135,5 +138,5 @@ export const useQueueStore = defineStore('queue', () => {
     }
   }
 
-  return { filters, rows, total, loading, loaded, error, refreshedAt, load, setFilters, reset, savable, saved, savedError, loadSaved, saveCurrent, removeSaved, apply, claim }
+  return { filters, rows, total, totalCapped, loading, loaded, error, refreshedAt, load, setFilters, reset, savable, saved, savedError, loadSaved, saveCurrent, removeSaved, apply, claim }
 })

@@ -1,6 +1,6 @@
 import { defineStore } from 'pinia'
 import { ref } from 'vue'
-import type { Invitation, InviteInput, StaffRole, TeamMember } from '../../shared/schemas/team'
+import type { AccountSummary, Invitation, InviteInput, StaffRole, TeamMember } from '../../shared/schemas/team'
 import * as teamApi from '../api/team'
 
 /** The desk's advisors and supervisors, and the invitations still open. */
@@ -16,8 +16,17 @@ export const useTeamStore = defineStore('team', () => {
     loaded.value = true
   }
 
-  const replace = (m: TeamMember) => {
-    members.value = members.value.map((x) => (x.id === m.id ? m : x))
+  const listeners = ref<AccountSummary[]>([])
+  const listenersTotal = ref(0)
+
+  const replace = (m: AccountSummary) => {
+    if (m.role === 'listener') listeners.value = listeners.value.map((x) => (x.id === m.id ? m : x))
+    else members.value = members.value.map((x) => (x.id === m.id ? (m as TeamMember) : x))
+  }
+  async function searchListeners(search: string): Promise<void> {
+    const r = await teamApi.listListeners({ search: search.trim() || undefined })
+    listeners.value = r.listeners
+    listenersTotal.value = r.total
   }
 
   async function invite(input: InviteInput): Promise<Invitation> {
@@ -33,5 +42,5 @@ export const useTeamStore = defineStore('team', () => {
   async function reactivate(id: string) { replace(await teamApi.reactivate(id)) }
   async function changeRole(id: string, role: StaffRole) { replace(await teamApi.changeRole(id, role)) }
 
-  return { members, invitations, loaded, load, invite, revoke, deactivate, reactivate, changeRole }
+  return { members, invitations, listeners, listenersTotal, searchListeners, loaded, load, invite, revoke, deactivate, reactivate, changeRole }
 })

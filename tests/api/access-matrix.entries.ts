@@ -26,8 +26,14 @@ export interface World {
   photoId: string
   /** a frequency-response text on the submitted case */
   measurementId: string
-  /** a reply snippet of the team */
+  /** a photo the advisor attached to an internal note on the submitted case (team only) */
+  noteFileId: string
+  /** its distinctive file name, which no listener may ever be shown */
+  noteFileName: string
+  /** a reply snippet of the team (made by the advisor) */
   snippetId: string
+  /** the advisor's personal snippet */
+  personalSnippetId: string
   /** a saved filter of the advisor */
   filterId: string
   /** the owner's credentials (for login scenarios) */
@@ -47,6 +53,8 @@ export interface Scenario {
   /** `world`: each caller gets its own fresh world (the call changes state); `session`: its own fresh session */
   fresh?: 'world' | 'session'
   expect: Record<Who, number>
+  /** strings no listener (owner or other) may find anywhere in their answer */
+  hiddenFromListeners?: (w: World) => string[]
 }
 
 /** Expected statuses in column order: signed out, owner, second listener, advisor, supervisor. */
@@ -62,6 +70,8 @@ const room = () => ({
   surfaces: { front: 'gypsum-on-studs', back: 'gypsum-on-studs', left: 'gypsum-on-studs', right: 'gypsum-on-studs', floor: 'wood-floor-on-joists', ceiling: 'plasterboard-ceiling-on-battens' },
 })
 const tag = () => randomUUID().slice(0, 8)
+/** What would betray the internal note's attachment: its id and its name. */
+const noteTraces = (w: World) => [w.noteFileId, w.noteFileName]
 const INBOUND_SECRET = process.env.INBOUND_EMAIL_SECRET ?? 'roomwright-development-inbound-secret'
 
 export const routeEntries: Record<string, Scenario[]> = {
@@ -74,16 +84,22 @@ export const routeEntries: Record<string, Scenario[]> = {
   ],
   'POST /api/auth/register': [sc(at(() => '/api/auth/register', { fresh: 'session', body: () => ({ email: `matrix-${tag()}@example.test`, password: 'a-long-enough-password', name: 'New Listener' }) }), all(201))],
   'POST /api/auth/logout': [sc(at(() => '/api/auth/logout', { fresh: 'session' }), all(204))],
+  'POST /api/auth/password': [sc(at(() => '/api/auth/password', { note: 'a wrong current password', body: () => ({ currentPassword: 'not-my-password-77', newPassword: 'lantern-orchard-basalt-9' }) }), E(401, 400, 400, 400, 400))],
+  'POST /api/auth/password-reset/request': [
+    sc(at(() => '/api/auth/password-reset/request', { note: 'an address with no account', body: () => ({ email: `nobody-${tag()}@example.test` }) }), all(202)),
+    sc(at(() => '/api/auth/password-reset/request', { note: "the owner's address", body: (w) => ({ email: w.owner.email }) }), all(202)),
+  ],
+  'POST /api/auth/password-reset': [sc(at(() => '/api/auth/password-reset', { note: 'a link that was never sent', body: () => ({ token: 'Q'.repeat(43), password: 'lantern-orchard-basalt-9' }) }), all(410))],
   'GET /api/auth/me': [sc(at(() => '/api/auth/me'), E(401, 200, 200, 200, 200))],
   'GET /api/auth/preferences': [sc(at(() => '/api/auth/preferences'), E(401, 200, 200, 200, 200))],
   'PATCH /api/auth/preferences': [sc(at(() => '/api/auth/preferences', { body: () => ({ units: 'metric' }) }), E(401, 200, 200, 200, 200))],
 
   'GET /api/users': [sc(at(() => '/api/users'), E(401, 403, 403, 200, 200))],
-  'POST /api/users': [sc(at(() => '/api/users', { body: () => ({ email: `staff-${tag()}@example.test`, password: 'a-long-enough-password', name: 'New Advisor', role: 'advisor' }) }), E(401, 403, 403, 403, 201))],
 
   'GET /api/rooms': [sc(at(() => '/api/rooms'), E(401, 200, 200, 403, 403))],
   'POST /api/rooms': [sc(at(() => '/api/rooms', { body: room }), E(401, 201, 201, 403, 403))],
   'POST /api/rooms/preview': [sc(at(() => '/api/rooms/preview', { body: room }), E(401, 200, 200, 200, 200))],
+  'POST /api/rooms/subwoofers': [sc(at(() => '/api/rooms/subwoofers', { body: () => ({ room: room(), counts: [1] }) }), E(401, 200, 200, 200, 200))],
   'GET /api/rooms/:id': [
     sc(at((w) => `/api/rooms/${w.roomId}`), E(401, 200, 404, 200, 200)),
     sc(at((w) => `/api/rooms/${w.draftRoomId}`, { note: 'room of a draft only' }), E(401, 200, 404, 404, 404)),
@@ -105,14 +121,14 @@ export const routeEntries: Record<string, Scenario[]> = {
     sc(at((w) => `/api/cases/${w.draftId}/triage`, { note: 'a draft has none yet' }), E(401, 404, 404, 404, 404)),
   ],
   'GET /api/cases/:id/triage/history': [sc(at((w) => `/api/cases/${w.caseId}/triage/history`), E(401, 200, 404, 200, 200))],
-  'GET /api/cases/:id/events': [sc(at((w) => `/api/cases/${w.caseId}/events`), E(401, 200, 404, 200, 200))],
-  'GET /api/cases/:id/messages': [sc(at((w) => `/api/cases/${w.caseId}/messages`), E(401, 200, 404, 200, 200))],
+  'GET /api/cases/:id/events': [sc(at((w) => `/api/cases/${w.caseId}/events`, { note: "no trace of the internal note's attachment", hiddenFromListeners: noteTraces }), E(401, 200, 404, 200, 200))],
+  'GET /api/cases/:id/messages': [sc(at((w) => `/api/cases/${w.caseId}/messages`, { note: 'no internal note', hiddenFromListeners: noteTraces }), E(401, 200, 404, 200, 200))],
   'POST /api/cases/:id/messages': [
     sc(at((w) => `/api/cases/${w.caseId}/messages`, { body: () => ({ body: 'Matrix message about the 48 Hz mode' }) }), E(401, 201, 404, 201, 201)),
     sc(at((w) => `/api/cases/${w.caseId}/messages`, { note: 'internal note', body: () => ({ body: 'Matrix note', internal: true }) }), E(401, 403, 404, 201, 201)),
     sc(at((w) => `/api/cases/${w.draftId}/messages`, { note: 'on a draft', body: () => ({ body: 'Too early' }) }), E(401, 409, 404, 404, 404)),
   ],
-  'GET /api/cases/:id/files': [sc(at((w) => `/api/cases/${w.caseId}/files`), E(401, 200, 404, 200, 200))],
+  'GET /api/cases/:id/files': [sc(at((w) => `/api/cases/${w.caseId}/files`, { note: "without the internal note's attachment", hiddenFromListeners: noteTraces }), E(401, 200, 404, 200, 200))],
   'POST /api/cases/:id/files': [
     sc(at((w) => `/api/cases/${w.caseId}/files`, { upload: 'photo' }), E(401, 201, 404, 201, 201)),
     sc(at((w) => `/api/cases/${w.draftId}/files`, { note: 'on a draft', upload: 'measurement' }), E(401, 201, 404, 404, 404)),
@@ -121,10 +137,12 @@ export const routeEntries: Record<string, Scenario[]> = {
   'GET /api/files/:id': [
     sc(at((w) => `/api/files/${w.photoId}`), E(401, 200, 404, 200, 200)),
     sc(at((w) => `/api/files/${w.measurementId}`, { note: 'a measurement' }), E(401, 200, 404, 200, 200)),
+    sc(at((w) => `/api/files/${w.noteFileId}`, { note: 'attachment of an internal note', hiddenFromListeners: noteTraces }), E(401, 404, 404, 200, 200)),
   ],
   'GET /api/files/:id/thumbnail': [
     sc(at((w) => `/api/files/${w.photoId}/thumbnail`), E(401, 200, 404, 200, 200)),
     sc(at((w) => `/api/files/${w.measurementId}/thumbnail`, { note: 'a measurement has none' }), E(401, 404, 404, 404, 404)),
+    sc(at((w) => `/api/files/${w.noteFileId}/thumbnail`, { note: 'attachment of an internal note', hiddenFromListeners: noteTraces }), E(401, 404, 404, 200, 200)),
   ],
   'POST /api/files/:id/reanalyse': [
     sc(at((w) => `/api/files/${w.measurementId}/reanalyse`), E(401, 403, 403, 200, 200)),
@@ -142,9 +160,20 @@ export const routeEntries: Record<string, Scenario[]> = {
     sc(at((w) => `/api/snippets/for-case/${w.caseId}`), E(401, 403, 403, 200, 200)),
     sc(at((w) => `/api/snippets/for-case/${w.draftId}`, { note: 'a draft' }), E(401, 403, 403, 404, 404)),
   ],
-  'POST /api/snippets': [sc(at(() => '/api/snippets', { body: () => ({ title: `Matrix snippet ${tag()}`, body: 'Your first axial mode is {{room.firstAxialHz}}.' }) }), E(401, 403, 403, 201, 201))],
-  'PUT /api/snippets/:id': [sc(at((w) => `/api/snippets/${w.snippetId}`, { body: () => ({ title: `Matrix snippet ${tag()}`, body: 'Edited body' }) }), E(401, 403, 403, 200, 200))],
-  'DELETE /api/snippets/:id': [sc(at((w) => `/api/snippets/${w.snippetId}`, { fresh: 'world' }), E(401, 403, 403, 204, 204))],
+  'POST /api/snippets': [
+    sc(at(() => '/api/snippets', { body: () => ({ title: `Matrix snippet ${tag()}`, body: 'Your first axial mode is {{room.firstAxialHz}}.' }) }), E(401, 403, 403, 201, 201)),
+    sc(at(() => '/api/snippets', { note: 'a team snippet', body: () => ({ title: `Matrix team snippet ${tag()}`, body: 'Shared words', scope: 'team' }) }), E(401, 403, 403, 201, 201)),
+  ],
+  'PUT /api/snippets/:id': [
+    sc(at((w) => `/api/snippets/${w.snippetId}`, { note: "the team's snippet (audited)", body: () => ({ title: `Matrix snippet ${tag()}`, body: 'Edited body' }) }), E(401, 403, 403, 200, 200)),
+    sc(at((w) => `/api/snippets/${w.personalSnippetId}`, { note: "the advisor's own snippet", body: () => ({ title: `Matrix own snippet ${tag()}`, body: 'Edited body' }) }), E(401, 403, 403, 200, 404)),
+    sc(at(() => `/api/snippets/${randomUUID()}`, { note: 'an unknown snippet', body: () => ({ title: `Matrix snippet ${tag()}`, body: 'Edited body' }) }), E(401, 403, 403, 404, 404)),
+  ],
+  'DELETE /api/snippets/:id': [
+    sc(at((w) => `/api/snippets/${w.snippetId}`, { note: "the team's snippet (audited)", fresh: 'world' }), E(401, 403, 403, 204, 204)),
+    sc(at((w) => `/api/snippets/${w.personalSnippetId}`, { note: "the advisor's own snippet", fresh: 'world' }), E(401, 403, 403, 204, 404)),
+    sc(at(() => `/api/snippets/${randomUUID()}`, { note: 'an unknown snippet' }), E(401, 403, 403, 404, 404)),
+  ],
 
   'GET /api/saved-filters': [sc(at(() => '/api/saved-filters'), E(401, 403, 403, 200, 200))],
   'POST /api/saved-filters': [sc(at(() => '/api/saved-filters', { body: () => ({ name: `Mine ${tag()}`, query: { scope: 'mine' } }) }), E(401, 403, 403, 201, 201))],
@@ -165,6 +194,7 @@ export const routeEntries: Record<string, Scenario[]> = {
   'POST /api/plans/preview': [sc(at(() => '/api/plans/preview', { note: 'empty body: staff reach validation', body: () => ({}) }), E(401, 403, 403, 400, 400))],
 
   'GET /api/team/members': [sc(at(() => '/api/team/members'), E(401, 403, 403, 403, 200))],
+  'GET /api/team/listeners': [sc(at(() => '/api/team/listeners?search=matrix'), E(401, 403, 403, 403, 200))],
   'POST /api/team/members/:id/deactivate': [sc(at(() => `/api/team/members/${randomUUID()}/deactivate`, { note: 'an unknown member' }), E(401, 403, 403, 403, 404))],
   'POST /api/team/members/:id/reactivate': [sc(at(() => `/api/team/members/${randomUUID()}/reactivate`, { note: 'an unknown member' }), E(401, 403, 403, 403, 404))],
   'PUT /api/team/members/:id/role': [sc(at(() => `/api/team/members/${randomUUID()}/role`, { note: 'an unknown member', body: () => ({ role: 'advisor' }) }), E(401, 403, 403, 403, 404))],
@@ -186,12 +216,15 @@ export interface SocketScenario {
   kind: 'ack' | 'typing' | 'leave'
   payload: (w: World) => unknown
   expect: Record<Who, string>
+  /** strings no listener's acknowledgement may contain */
+  hiddenFromListeners?: (w: World) => string[]
 }
 const S = (out: string, owner: string, other: string, advisor: string, supervisor: string): Record<Who, string> => ({ out, owner, other, advisor, supervisor })
 
 export const socketEntries: Record<string, SocketScenario[]> = {
   'case.join': [
     { kind: 'ack', payload: (w) => ({ caseId: w.caseId }), expect: S('signed_out', 'ok', 'not_found', 'ok', 'ok') },
+    { note: "catching up from the start: no trace of the internal note's attachment", kind: 'ack', payload: (w) => ({ caseId: w.caseId, afterSeq: 0 }), expect: S('signed_out', 'ok', 'not_found', 'ok', 'ok'), hiddenFromListeners: noteTraces },
     { note: 'a draft', kind: 'ack', payload: (w) => ({ caseId: w.draftId }), expect: S('signed_out', 'ok', 'not_found', 'not_found', 'not_found') },
     { note: 'no caseId', kind: 'ack', payload: () => ({}), expect: S('signed_out', 'invalid', 'invalid', 'invalid', 'invalid') },
   ],

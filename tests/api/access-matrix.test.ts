@@ -57,12 +57,16 @@ async function makeWorld(): Promise<World> {
   const d = (await post(o, '/api/cases', { roomId: dr.id, title: 'World draft' }, 201)).body
   const photo = (await upload(o, `/api/cases/${c.id}/files`, 'photo').expect(201)).body
   const measurement = (await upload(o, `/api/cases/${c.id}/files`, 'measurement').expect(201)).body
-  const snippet = (await post(callers.advisor, '/api/snippets', { title: `World snippet ${c.id.slice(0, 8)}`, body: 'Hello {{listener.name}}' }, 201)).body
+  const noteFileName = `note-attachment-${c.id.slice(0, 8)}.png`
+  const noteFile = (await callers.advisor.agent.post(`/api/cases/${c.id}/files`).set('X-CSRF-Token', callers.advisor.csrf).attach('file', PHOTO, noteFileName).expect(201)).body
+  await post(callers.advisor, `/api/cases/${c.id}/messages`, { body: 'Team only: compare with the 41 Hz photo', internal: true, fileIds: [noteFile.id] }, 201)
+  const snippet = (await post(callers.advisor, '/api/snippets', { title: `World snippet ${c.id.slice(0, 8)}`, body: 'Hello {{listener.name}}', scope: 'team' }, 201)).body
+  const personal = (await post(callers.advisor, '/api/snippets', { title: `World own snippet ${c.id.slice(0, 8)}`, body: 'My own words, {{listener.name}}' }, 201)).body
   const filter = (await post(callers.advisor, '/api/saved-filters', { name: `World ${c.id.slice(0, 8)}`, query: { scope: 'unassigned' } }, 201)).body
   const [{ reply_token }] = await db().query<{ reply_token: string }>('SELECT reply_token FROM cases WHERE id = $1', { bind: [c.id], type: QueryTypes.SELECT })
   return {
-    roomId: r.id, draftRoomId: dr.id, caseId: c.id, draftId: d.id, photoId: photo.id, measurementId: measurement.id,
-    snippetId: snippet.id, filterId: filter.id, owner: { email: users.owner.email, password: users.owner.password }, replyToken: reply_token,
+    roomId: r.id, draftRoomId: dr.id, caseId: c.id, draftId: d.id, photoId: photo.id, measurementId: measurement.id, noteFileId: noteFile.id, noteFileName,
+    snippetId: snippet.id, personalSnippetId: personal.id, filterId: filter.id, owner: { email: users.owner.email, password: users.owner.password }, replyToken: reply_token,
   }
 }
 
@@ -145,11 +149,19 @@ describe('HTTP routes × callers', () => {
       it(`${key}${s.note ? ` (${s.note})` : ''} answers ${WHO.map((w) => `${w} ${s.expect[w]}`).join(', ')}`, async () => {
         const got = {} as Record<Who, number>
         const shapes: string[] = []
+        const leaks: string[] = []
         for (const who of WHO) {
           const w = s.fresh === 'world' ? await makeWorld() : shared
           const c = s.fresh === 'session' ? await newCaller(who) : callers[who]
           const res = await call(c, s, w, method)
           got[who] = res.status
+          // never a secret to the browser: the case's reply-by-e-mail token appears in no answer to anyone
+          if (res.text?.includes(w.replyToken)) leaks.push(`${who}: the reply token`)
+          // nor any token or hash under a name of its own (the case a route just created has a token of its own)
+          if (/"(reply_?token|token_?hash|password_?hash|password|secret)"\s*:/i.test(res.text ?? '')) leaks.push(`${who}: ${/"(reply_?token|token_?hash|password_?hash|password|secret)"/i.exec(res.text)![0]}`)
+          if ((who === 'owner' || who === 'other') && s.hiddenFromListeners) {
+            for (const secret of s.hiddenFromListeners(w)) if (res.text?.includes(secret) || JSON.stringify(res.headers).includes(secret)) leaks.push(`${who}: ${secret}`)
+          }
           if (res.status >= 400) {
             const e = res.body?.error
             if (!(typeof e?.code === 'string' && typeof e?.message === 'string')) shapes.push(`${who}: ${res.status} without { error: { code, message } }: ${res.text.slice(0, 120)}`)
@@ -157,6 +169,7 @@ describe('HTTP routes × callers', () => {
         }
         expect(got).toEqual(s.expect)
         expect(shapes).toEqual([])
+        expect(leaks).toEqual([])
       }, 60_000)
     }
   }
@@ -203,6 +216,7 @@ describe('socket events × callers', () => {
             if (s.kind === 'ack') {
               const a = await emitAck(sock, event, s.payload(shared))
               got[who] = a.ok ? 'ok' : a.error!.code
+              if ((who === 'owner' || who === 'other') && s.hiddenFromListeners?.(shared).some((x) => JSON.stringify(a).includes(x))) got[who] = 'leaked the internal note'
               if (event === 'queue.join' && !a.ok) {
                 // refused: no queue traffic reaches this socket either
                 const p = quiet(sock, 'queue.changed', 1000)

@@ -1,6 +1,8 @@
 import { afterAll, describe, expect, it } from 'vitest'
 import request from 'supertest'
 import { client, closeTestApp, makeUser, signedIn, testApp, uniqueEmail, TEST_PASSWORD } from '../helpers/api'
+import { QueryTypes } from 'sequelize'
+import { db } from '../../server/db/sequelize'
 
 afterAll(closeTestApp)
 
@@ -83,26 +85,14 @@ describe('POST /api/auth/logout and GET /api/auth/me', () => {
   })
 })
 
-describe('POST /api/users (staff accounts)', () => {
-  const body = () => ({ email: uniqueEmail('staff'), password: 'staff-passphrase-1', name: 'Odile Brenner', role: 'advisor' })
-  it('a supervisor creates an advisor (201)', async () => {
+describe('staff accounts have one way in: an invitation', () => {
+  it('POST /api/users is gone: a supervisor cannot create an advisor directly (404) and no account appears', async () => {
     const { c } = await signedIn('supervisor')
-    const res = await c.post('/api/users', body()).expect(201)
-    expect(res.body.role).toBe('advisor')
-  })
-  it.each(['listener', 'advisor'] as const)('a %s gets 403', async (role) => {
-    const { c } = await signedIn(role)
-    const res = await c.post('/api/users', body()).expect(403)
-    expect(res.body.error.code).toBe('forbidden')
-  })
-  it('signed out gets 401', async () => {
-    const c = await client()
-    await c.post('/api/users', body()).expect(401)
-  })
-  it('a supervisor creating a listener through it gets 400 (listeners sign up themselves)', async () => {
-    const { c } = await signedIn('supervisor')
-    const res = await c.post('/api/users', { ...body(), role: 'listener' }).expect(400)
-    expect(res.body.error.fields[0].path).toBe('role')
+    const email = uniqueEmail('direct-staff')
+    const res = await c.post('/api/users', { email, password: 'staff-passphrase-1', name: 'Odile Brenner', role: 'advisor' }).expect(404)
+    expect(res.body.error.code).toBe('not_found')
+    const rows = await db().query('SELECT 1 FROM users WHERE lower(email) = $1', { bind: [email], type: QueryTypes.SELECT })
+    expect(rows).toHaveLength(0)
   })
 })
 

@@ -156,4 +156,23 @@ describe('attachments on messages', () => {
     const thread = (await listener.c.get(`/api/cases/${c.id}/messages`).expect(200)).body.messages
     expect(thread.map((m: { body: string }) => m.body)).not.toContain('Wrong file')
   })
+
+  it("a file attached to an internal note is as internal as the note: the listener's file list, download and history leave it out", async () => {
+    const listener = await signedIn('listener')
+    const advisor = await signedIn('advisor')
+    const { case: c } = await openCase(listener.c)
+    const up = (await advisor.c.agent.post(`/api/cases/${c.id}/files`).set('X-CSRF-Token', advisor.c.csrf).attach('file', await png(36, 24), 'bass-trap-quote.png').expect(201)).body
+    await advisor.c.post(`/api/cases/${c.id}/messages`, { body: 'Supplier quote for the corner traps, team only.', internal: true, fileIds: [up.id] }).expect(201)
+    const teamFiles = (await advisor.c.get(`/api/cases/${c.id}/files`).expect(200)).body.files as { id: string }[]
+    expect(teamFiles.map((f) => f.id)).toContain(up.id)
+    const listenerFiles = (await listener.c.get(`/api/cases/${c.id}/files`).expect(200)).body.files as { id: string }[]
+    expect(listenerFiles.map((f) => f.id)).not.toContain(up.id)
+    await listener.c.get(`/api/files/${up.id}`).expect(404)
+    await listener.c.get(`/api/files/${up.id}/thumbnail`).expect(404)
+    await advisor.c.get(`/api/files/${up.id}`).expect(200)
+    const kinds = ((await listener.c.get(`/api/cases/${c.id}/events`).expect(200)).body.events as { kind: string }[]).map((e) => e.kind)
+    expect(kinds).not.toContain('note')
+    const teamKinds = ((await advisor.c.get(`/api/cases/${c.id}/events`).expect(200)).body.events as { kind: string }[]).map((e) => e.kind)
+    expect(teamKinds).toContain('note')
+  })
 })

@@ -13,10 +13,11 @@ import { stopJobs } from '../../server/jobs/queue'
 import { closeTestApp, client, signedIn, testApp, type Client } from '../helpers/api'
 import { openCase } from '../helpers/cases'
 import { testRoom } from '../helpers/rooms'
-import { createUserSchema, loginSchema, registerSchema, updatePreferencesSchema } from '../../shared/schemas/auth'
+import { loginSchema, registerSchema, updatePreferencesSchema } from '../../shared/schemas/auth'
 import { roomSchema } from '../../shared/schemas/room'
 import { createCaseSchema, messageSchema, updateCaseSchema } from '../../shared/schemas/case'
-import { snippetSchema } from '../../shared/schemas/snippet'
+import { snippetSchema, snippetUpdateSchema } from '../../shared/schemas/snippet'
+import { inviteSchema } from '../../shared/schemas/team'
 import { queueQuerySchema, savedFilterSchema } from '../../shared/schemas/queue'
 import { INBOUND_SECRET_HEADER } from '../../server/routes/mail'
 import { config } from '../../server/config'
@@ -75,12 +76,13 @@ interface Target {
 }
 
 const emailOf = (b: unknown) => (b && typeof b === 'object' && typeof (b as { email?: unknown }).email === 'string' ? String((b as { email: string }).email).trim().toLowerCase() : null)
+const invitationsFor = (b: unknown) => (emailOf(b) ? count('SELECT count(*)::int AS n FROM team_invitations WHERE lower(email) = $1', [emailOf(b)]) : Promise.resolve(0))
 const usersWithEmail = (b: unknown) => (emailOf(b) ? count('SELECT count(*)::int AS n FROM users WHERE lower(email) = $1', [emailOf(b)]) : Promise.resolve(0))
 
 const targets: Target[] = [
   { route: 'POST /api/auth/login', as: () => signedOut, schema: loginSchema, valid: () => ({ email: listener.user.email, password: listener.user.password }), ok: [200], runs: 40 },
   { route: 'POST /api/auth/register', as: () => signedOut, schema: registerSchema, valid: () => ({ email: `fuzz-${randomUUID().slice(0, 8)}@example.test`, password: 'long enough password', name: 'Fuzz Listener' }), footprint: usersWithEmail, ok: [201], runs: 40 },
-  { route: 'POST /api/users', as: () => supervisor.c, schema: createUserSchema, valid: () => ({ email: `fuzz-staff-${randomUUID().slice(0, 8)}@example.test`, password: 'long enough password', name: 'Fuzz Advisor', role: 'advisor' }), footprint: usersWithEmail, ok: [201], runs: 40 },
+  { route: 'POST /api/team/invitations', as: () => supervisor.c, schema: inviteSchema, valid: () => ({ email: `fuzz-staff-${randomUUID().slice(0, 8)}@example.test`, name: 'Fuzz Advisor', role: 'advisor' }), footprint: invitationsFor, ok: [201], runs: 40 },
   { route: 'PATCH /api/auth/preferences', as: () => listener.c, schema: updatePreferencesSchema, valid: () => ({ units: 'imperial', emailOptional: true }), footprint: () => q('SELECT units, email_optional FROM users WHERE id = $1', [listener.user.id]), ok: [200] },
   { route: 'POST /api/rooms', as: () => listener.c, schema: roomSchema, valid: () => testRoom(), footprint: () => count('SELECT count(*)::int AS n FROM rooms WHERE owner_id = $1', [listener.user.id]), ok: [201] },
   { route: 'POST /api/rooms/preview', as: () => listener.c, schema: roomSchema, valid: () => testRoom(), ok: [200] },
@@ -99,7 +101,7 @@ const targets: Target[] = [
     footprint: async () => [await count('SELECT count(*)::int AS n FROM messages WHERE case_id = $1', [caseId]), await count('SELECT count(*)::int AS n FROM email_outbox WHERE case_id = $1', [caseId])], ok: [201],
   },
   { route: 'POST /api/snippets', as: () => advisor.c, schema: snippetSchema, valid: () => ({ title: `Fuzz snippet ${randomUUID().slice(0, 8)}`, body: 'Your room is {{room.dimensions}}' }), footprint: () => count('SELECT count(*)::int AS n FROM reply_snippets', []), ok: [201] },
-  { route: 'PUT /api/snippets/:snippet', as: () => advisor.c, schema: snippetSchema, valid: () => ({ title: `Fuzz snippet ${randomUUID().slice(0, 8)}`, body: 'Edited' }), footprint: () => q('SELECT title, body FROM reply_snippets WHERE id = $1', [snippetId]), ok: [200] },
+  { route: 'PUT /api/snippets/:snippet', as: () => advisor.c, schema: snippetUpdateSchema, valid: () => ({ title: `Fuzz snippet ${randomUUID().slice(0, 8)}`, body: 'Edited' }), footprint: () => q('SELECT title, body FROM reply_snippets WHERE id = $1', [snippetId]), ok: [200] },
   { route: 'POST /api/saved-filters', as: () => advisor.c, schema: savedFilterSchema, valid: () => ({ name: `Fuzz ${randomUUID().slice(0, 8)}`, query: { scope: 'mine', status: ['in_review'], sort: 'waiting', dir: 'asc', pageSize: 50, q: 'bass' } }), footprint: () => count('SELECT count(*)::int AS n FROM saved_filters WHERE user_id = $1', [advisor.user.id]), ok: [201] },
   {
     route: 'POST /api/inbound/email', as: () => signedOut, headers: { [INBOUND_SECRET_HEADER]: config().INBOUND_EMAIL_SECRET },
@@ -130,7 +132,7 @@ function checkAnswer(res: request.Response, what: string) {
 describe('JSON bodies through the real routes', () => {
   it('covers every JSON body schema the routes validate', () => {
     const schemas = new Set(targets.map((t) => t.schema).filter(Boolean))
-    for (const s of [loginSchema, registerSchema, createUserSchema, updatePreferencesSchema, roomSchema, createCaseSchema, updateCaseSchema, messageSchema, snippetSchema, savedFilterSchema]) expect(schemas.has(s)).toBe(true)
+    for (const s of [loginSchema, registerSchema, inviteSchema, updatePreferencesSchema, roomSchema, createCaseSchema, updateCaseSchema, messageSchema, snippetSchema, savedFilterSchema]) expect(schemas.has(s)).toBe(true)
   })
 
   for (const t of targets) {

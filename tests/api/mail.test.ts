@@ -169,6 +169,25 @@ describe('POST /api/inbound/email (a provider\'s inbound webhook)', () => {
     const thread = (await listener.c.get(`/api/cases/${caseId}/messages`).expect(200)).body.messages
     expect(thread.some((m: { body: string }) => m.body.includes('honestly'))).toBe(false)
   })
+  it("a reply from someone else is held for the team (issue 13, finding 6): an internal note and history entry only staff see, never the listener's message", async () => {
+    const { caseId, token, listener } = await listenerWithCase()
+    const stranger = `held-${randomBytes(4).toString('hex')}@example.test`
+    await post(mail(`reply+${token}@${REPLY_DOMAIN}`, stranger, 'Please send the plan to me instead, 7731'), SECRET).expect(403)
+    const { c: advisor } = await signedIn('advisor')
+    const staffThread = (await advisor.get(`/api/cases/${caseId}/messages`).expect(200)).body.messages as { body: string; internal: boolean; author: unknown; source: string }[]
+    const held = staffThread.find((m) => m.body.includes('7731'))
+    expect(held).toMatchObject({ internal: true, author: null, source: 'email' })
+    expect(held!.body).toContain(stranger)
+    const staffEvents = (await advisor.get(`/api/cases/${caseId}/events`).expect(200)).body.events as { kind: string }[]
+    expect(staffEvents.some((e) => e.kind === 'email-held')).toBe(true)
+    const listenerThread = await listener.c.get(`/api/cases/${caseId}/messages`).expect(200)
+    const listenerEvents = await listener.c.get(`/api/cases/${caseId}/events`).expect(200)
+    for (const r of [listenerThread, listenerEvents]) {
+      expect(r.text).not.toContain('7731')
+      expect(r.text).not.toContain(stranger)
+      expect(r.text).not.toContain('email-held')
+    }
+  })
   it('a reply that is only quoted history answers 422 empty_reply', async () => {
     const { token, listener } = await listenerWithCase()
     const res = await post(mail(`reply+${token}@${REPLY_DOMAIN}`, listener.user.email, '> only the quote\n> of our e-mail'), SECRET).expect(422)

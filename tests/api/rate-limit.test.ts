@@ -63,3 +63,12 @@ describe('trivial passwords are refused with a clear message (zxcvbn-ts estimato
     expect(r.body.error.fields[0].path).toBe('password')
   })
 })
+
+describe('POST /api/auth/password-reset/request rate limit', () => {
+  it('after 3 requests from one address the 4th answers 429, whatever e-mail it names; sign-in keeps its own budget', async () => {
+    const c = await client()
+    for (let i = 0; i < 3; i++) await c.post('/api/auth/password-reset/request', { email: uniqueEmail('forgot') }).expect(202)
+    const res = await c.post('/api/auth/password-reset/request', { email: uniqueEmail('forgot') }).expect(429)
+    expect(res.body.error.code).toBe('rate_limited')
+  })
+})

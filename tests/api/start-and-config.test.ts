@@ -14,19 +14,27 @@ describe('configuration is validated at start-up', () => {
     expect(() => loadConfig({ PORT: 'eighty', DATABASE_URL: 'postgres://u@127.0.0.1/db' })).toThrow(ConfigError)
     expect(() => loadConfig({ PORT: 'eighty', DATABASE_URL: 'postgres://u@127.0.0.1/db' })).toThrow(/PORT/)
   })
+  it('production refuses a missing or development-default INBOUND_EMAIL_SECRET, naming the variable (issue 13, finding 6)', () => {
+    const prod = { DATABASE_URL: 'postgres://u@127.0.0.1/db', NODE_ENV: 'production', SESSION_SECRET: 'a-production-session-secret-42' }
+    expect(() => loadConfig(prod)).toThrow(/INBOUND_EMAIL_SECRET/)
+    expect(() => loadConfig({ ...prod, INBOUND_EMAIL_SECRET: 'roomwright-development-inbound-secret' })).toThrow(/INBOUND_EMAIL_SECRET/)
+    expect(() => loadConfig({ ...prod, INBOUND_EMAIL_SECRET: 'short' })).toThrow(/INBOUND_EMAIL_SECRET/)
+    expect(loadConfig({ ...prod, INBOUND_EMAIL_SECRET: 'a-secret-of-our-own-9d2f' }).INBOUND_EMAIL_SECRET).toBe('a-secret-of-our-own-9d2f')
+    expect(loadConfig({ DATABASE_URL: 'postgres://u@127.0.0.1/db' }).INBOUND_EMAIL_SECRET).toBe('roomwright-development-inbound-secret')
+  })
   it('a DATABASE_URL that is not a postgres URL is refused', () => {
     expect(() => loadConfig({ DATABASE_URL: 'mysql://x@y/z' })).toThrow(/DATABASE_URL must be a postgres/)
   })
   it('the server process exits with code 2 and a clear message on a bad PORT', () => {
-    const r = spawnSync(process.execPath, [...tsx, 'server/index.ts'], { env: { ...process.env, PORT: '70000' }, encoding: 'utf8', timeout: 30_000 })
+    const r = spawnSync(process.execPath, [...tsx, 'server/index.ts'], { env: { ...process.env, PORT: '70000' }, encoding: 'utf8', timeout: 100_000 })
     expect(r.status).toBe(2)
     expect(r.stderr).toMatch(/PORT: PORT must be between 0 and 65535/)
-  })
+  }, 120_000)
   it('npm start refuses a bad PORT before provisioning anything', () => {
-    const r = spawnSync(process.execPath, [...tsx, 'server/dev/start.ts', '--no-client'], { env: { ...process.env, DATABASE_URL: '', PORT: 'abc', RW_DATA_DIR: '/nonexistent/never-made' }, encoding: 'utf8', timeout: 30_000 })
+    const r = spawnSync(process.execPath, [...tsx, 'server/dev/start.ts', '--no-client'], { env: { ...process.env, DATABASE_URL: '', PORT: 'abc', RW_DATA_DIR: '/nonexistent/never-made' }, encoding: 'utf8', timeout: 100_000 })
     expect(r.status).toBe(2)
     expect(r.stderr).toMatch(/PORT/)
-  })
+  }, 120_000)
 })
 
 /** Runs the start script until it prints its URL, then stops it with SIGINT (Ctrl-C). */

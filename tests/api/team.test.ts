@@ -140,7 +140,7 @@ describe('switching accounts off and on, and roles', () => {
     await sup.c.get('/api/auth/me').expect(200)
   })
 
-  it('a role change applies from the next request; listeners are not team members (404)', async () => {
+  it('a role change applies from the next request; a listener has no team role to change (404)', async () => {
     const sup = await signedIn('supervisor')
     const advisor = await signedIn('advisor')
     await advisor.c.get('/api/metrics/status').expect(403)
@@ -149,7 +149,7 @@ describe('switching accounts off and on, and roles', () => {
     await sup.c.put(`/api/team/members/${advisor.user.id}/role`, { role: 'supervisor' }).expect(409)
     await sup.c.put(`/api/team/members/${advisor.user.id}/role`, { role: 'listener' }).expect(400)
     const listener = await makeUser('listener')
-    await sup.c.post(`/api/team/members/${listener.id}/deactivate`).expect(404)
+    await sup.c.put(`/api/team/members/${listener.id}/role`, { role: 'advisor' }).expect(404)
     const audit = (await sup.c.get(`/api/audit?actorId=${sup.user.id}&action=member.role_changed`).expect(200)).body
     expect(audit.entries[0].details).toEqual({ from: 'advisor', to: 'supervisor' })
   })

@@ -21,7 +21,7 @@ export async function seed(): Promise<void> {
 const H = 3_600_000
 
 /** Small deterministic generator (mulberry32), so every demo database gets the same story. */
-function prng(seed: number) {
+export function prng(seed: number) {
   let a = seed >>> 0
   return () => {
     a = (a + 0x6d2b79f5) >>> 0

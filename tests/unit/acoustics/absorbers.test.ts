@@ -14,6 +14,13 @@ describe('porousCharacteristics — Delany & Bazley, Applied Acoustics 3, 1970',
     expect(k[0]).toBeCloseTo(1.49016111, 8)
     expect(k[1]).toBeCloseTo(-0.74380964, 8)
   })
+  it('Miki (J. Acoust. Soc. Jpn (E) 11(1), 1990) at Y = f/σ = 0.1 gives Zc/ρ₀c₀ = 1.29955542 − 0.45854692j and kc/k₀ = 1.45229991 − 0.66392647j (REFERENCES.md formulas, worked by hand)', () => {
+    const { z, k } = porousCharacteristics('miki', 1000, 10_000)
+    expect(z[0]).toBeCloseTo(1.29955542, 8)
+    expect(z[1]).toBeCloseTo(-0.45854692, 8)
+    expect(k[0]).toBeCloseTo(1.45229991, 8)
+    expect(k[1]).toBeCloseTo(-0.66392647, 8)
+  })
   it('Miki (J. Acoust. Soc. Jpn (E) 11(1), 1990) stays within 10 % of Delany–Bazley in the middle of their range', () => {
     const a = porousCharacteristics('delany-bazley', 1000, 10_000)
     const b = porousCharacteristics('miki', 1000, 10_000)
@@ -39,12 +46,12 @@ function matmul(a: [C, C, C, C], b: [C, C, C, C]): [C, C, C, C] {
 
 describe('porousAbsorption', () => {
   const freqs = [63, 125, 250, 500, 1000, 2000, 4000]
-  it('agrees with an independent transfer-matrix evaluation (layer × air gap, rigid wall: Zs = T11/T21)', () => {
-    const layer = { thickness: 0.05, flowResistivity: 15_000, airGap: 0.08 }
+  for (const model of ['delany-bazley', 'miki'] as const) it(`agrees with an independent transfer-matrix evaluation (layer × air gap, rigid wall: Zs = T11/T21), ${model}`, () => {
+    const layer = { thickness: 0.05, flowResistivity: 15_000, airGap: 0.08, model }
     const c0 = speedOfSound(20)
     const rho0 = airDensity(20)
     for (const f of freqs) {
-      const { z, k } = porousCharacteristics('delany-bazley', f, layer.flowResistivity, rho0)
+      const { z, k } = porousCharacteristics(model, f, layer.flowResistivity, rho0)
       const k0 = (2 * Math.PI * f) / c0
       const t = matmul(layerMatrix(z, [k[0] * k0 * layer.thickness, k[1] * k0 * layer.thickness]), layerMatrix([1, 0], [k0 * layer.airGap, 0]))
       const zs = div(t[0], t[2])

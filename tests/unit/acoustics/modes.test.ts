@@ -1,6 +1,7 @@
 import fc from 'fast-check'
 import { describe, expect, it } from 'vitest'
-import { analyzeModes, compareRatios, modalDensity, modalResponse, modeCountEstimate, modePressure, roomModes, speedOfSound } from '../../../shared/acoustics'
+import { analyzeModes, compareRatios, modalDensity, modalResponse, modeCountEstimate, modePressure, roomModes, speedOfSound, MODAL_CONVERGENCE_DB } from '../../../shared/acoustics'
+import { readFileSync } from 'node:fs'
 import { celsiusFor, deepFreeze } from './helpers'
 
 const FT = 0.3048
@@ -107,9 +108,12 @@ describe('analyzeModes', () => {
     const nonDecreasing = a.thirdOctaveBands.every((b, i, arr) => i === 0 || arr[i - 1].count === 0 && b.count >= 0 || b.count >= arr[i - 1].count)
     expect(a.bonello.decreasingAtHz.length === 0).toBe(nonDecreasing)
   })
-  it('recognises a room built to the Bolt ratio 1 : 1.26 : 1.59 (Cox, D\'Antonio & Avis, JAES 52(6), 2004)', () => {
+  it('recognises a room built to the cube-root-of-two ratio 1 : 2^(1/3) : 2^(2/3) = 1 : 1.26 : 1.59 (closed form), labelled by what it is', () => {
     const r = compareRatios({ length: 2.4 * 1.59, width: 2.4 * 1.26, height: 2.4 })
-    expect(r.nearest.name).toBe('Bolt')
+    expect(r.nearest.name).toMatch(/^Cube-root-of-two ratio/)
+    expect(r.nearest.name).not.toMatch(/Bolt/)
+    expect(r.nearest.ratio[1]).toBeCloseTo(2 ** (1 / 3), 2)
+    expect(r.nearest.ratio[2]).toBeCloseTo(2 ** (2 / 3), 2)
     expect(r.nearest.distance).toBeCloseTo(0, 9)
     expect(r.normalised[1]).toBeCloseTo(1.26, 9)
   })
@@ -159,5 +163,79 @@ describe('modalResponse', () => {
   it('rejects a seat outside the room and an empty source list', () => {
     expect(() => modalResponse(room, spk, { x: 1, y: 5, z: 1 })).toThrow('receiver lies outside the room: y = 5 m > width 4.1 m')
     expect(() => modalResponse(room, [], seat)).toThrow(RangeError)
+  })
+})
+
+describe('modalResponse — outside checks', () => {
+  it('a thin tube (only axial length modes in range) matches the analytic 1-D standing-wave solution −cos(kx<)·cos(k(L−x>))/(k·sin kL) (Kinsler et al., Fundamentals of Acoustics, rigid-ended pipe; Morse & Ingard, Theoretical Acoustics §9.2)', () => {
+    // cross-section 0.05 m: the first cross mode lies at c/(2·0.05) ≈ 3.4 kHz, far above the summed modes
+    const L = 4.3
+    const tube = { length: L, width: 0.05, height: 0.05 }
+    const xs = 0.7, xr = 3.1
+    const src = { x: xs, y: 0.025, z: 0.025 }
+    const rec = { x: xr, y: 0.025, z: 0.025 }
+    const c = speedOfSound(20)
+    const r = modalResponse(tube, src, rec, { fromHz: 20, toHz: 200, rt60: 1000, smoothingOctaves: 0 })
+    // u'' + k²u = −δ(x − xs) with u' = 0 at both ends: u = −cos(k·xs)·cos(k(L − xr))/(k·sin kL) (xs < xr), whose
+    // modal form is Σ_{n≥0} ε_n cos(nπxs/L) cos(nπxr/L) / (L(k_n² − k²)); the engine leaves out the (0,0,0) mode,
+    // whose term is −1/(Lk²), so the engine's sum is u + 1/(Lk²)
+    const G = (k: number) => -(Math.cos(k * xs) * Math.cos(k * (L - xr))) / (k * Math.sin(k * L)) + 1 / (L * k * k)
+    const analytic = r.freqsHz.map((f) => 20 * Math.log10(Math.abs(G((2 * Math.PI * f) / c))))
+    // compare level differences against a reference point between resonances (the engine normalises to its mean)
+    const modesHz = [1, 2, 3, 4, 5].map((n) => (n * c) / (2 * L))
+    const clear = r.freqsHz.map((f, i) => modesHz.every((m) => Math.abs(f - m) / m > 0.06) && Math.abs(analytic[i]) < 1e6)
+    const ref = r.freqsHz.findIndex((f, i) => clear[i] && f > 60)
+    let checked = 0
+    r.freqsHz.forEach((f, i) => {
+      if (!clear[i]) return
+      const diffEngine = r.levelDb[i] - r.levelDb[ref]
+      const diffAnalytic = analytic[i] - analytic[ref]
+      if (diffAnalytic < -30) return // skip the deep nulls, where a 0.1 % error is many dB
+      expect(Math.abs(diffEngine - diffAnalytic), `${f.toFixed(1)} Hz`).toBeLessThan(0.1)
+      checked++
+    })
+    expect(checked).toBeGreaterThan(50)
+  })
+
+  it(`has converged: doubling the modal cut-off moves the spread by less than the documented ${MODAL_CONVERGENCE_DB} dB (the fixture rooms and a speaker close to the seat)`, () => {
+    for (const name of ['den', 'basement', 'loft']) {
+      const d = JSON.parse(readFileSync(`tests/fixtures/engine/${name}.input.json`, 'utf8'))
+      const bass = d.subwoofers?.length ? d.subwoofers : d.speakers
+      const a = modalResponse(d, bass, d.seats[0], { rt60: 0.45 })
+      const b = modalResponse(d, bass, d.seats[0], { rt60: 0.45, modalMaxHz: 2 * 3 * 300 })
+      expect(Math.abs(a.spreadDb - b.spreadDb), name).toBeLessThan(MODAL_CONVERGENCE_DB)
+      a.smoothedDb.forEach((v, i) => expect(Math.abs(v - b.smoothedDb[i])).toBeLessThan(0.3))
+    }
+    const near = modalResponse({ length: 6, width: 4.5, height: 2.6 }, { x: 1, y: 1.5, z: 1 }, { x: 2.2, y: 1.9, z: 1.1 }, { rt60: 0.3 })
+    const near2 = modalResponse({ length: 6, width: 4.5, height: 2.6 }, { x: 1, y: 1.5, z: 1 }, { x: 2.2, y: 1.9, z: 1.1 }, { rt60: 0.3, modalMaxHz: 1800 })
+    expect(Math.abs(near.spreadDb - near2.spreadDb)).toBeLessThan(MODAL_CONVERGENCE_DB)
+  })
+
+  it('smoothing is a power average over linear frequency between the 1/6-octave band edges f·2^(∓1/12), checked against a dense direct evaluation', () => {
+    const room = { length: 5.8, width: 4.1, height: 2.5 }
+    const spk = { x: 0.7, y: 1.1, z: 0.9 }
+    const seat = { x: 3.6, y: 2.3, z: 1.1 }
+    const r = modalResponse(room, spk, seat, { rt60: 0.4 })
+    const raw = modalResponse(room, spk, seat, { rt60: 0.4, smoothingOctaves: 0 })
+    // mean power of the whole curve, from the unsmoothed levels (both curves share it)
+    for (const f0 of [40, 63, 97, 150, 230]) {
+      const i = r.freqsHz.findIndex((f) => f >= f0)
+      const fc = r.freqsHz[i]
+      const lo = fc * 2 ** (-1 / 12), hi = fc * 2 ** (1 / 12)
+      // independent: 2000 linearly spaced frequencies across the band, each from its own modal sum
+      const dense = modalResponse(room, spk, seat, { rt60: 0.4, fromHz: lo, toHz: hi, pointsPerOctave: 2000 * 6, smoothingOctaves: 0, modalMaxHz: 900 })
+      // the dense grid is log-spaced: weight each point by its share of linear frequency
+      let num = 0, den = 0
+      for (let k = 1; k < dense.freqsHz.length; k++) {
+        const w = dense.freqsHz[k] - dense.freqsHz[k - 1]
+        num += 0.5 * (10 ** (dense.levelDb[k] / 10) + 10 ** (dense.levelDb[k - 1] / 10)) * w
+        den += w
+      }
+      // dense levels are relative to the dense curve's own mean: put both on an absolute footing via a shared point
+      const j = dense.freqsHz.findIndex((f) => f >= fc)
+      const offset = raw.levelDb[i] - dense.levelDb[j] // same frequency (to 1e-6), so the same absolute power
+      const expected = 10 * Math.log10(num / den) + offset
+      expect(Math.abs(r.smoothedDb[i] - expected), `${f0} Hz`).toBeLessThan(0.15)
+    }
   })
 })

@@ -1,5 +1,5 @@
 import { describe, expect, it } from 'vitest'
-import { airAttenuationDbPerM, bandReverberation, eyringRt, sabineRt, schroederFrequency } from '../../../shared/acoustics'
+import { OCTAVE_BANDS_HZ, airAttenuationDbPerM, bandReverberation, eyringRt, getMaterial, sabineRt, schroederFrequency } from '../../../shared/acoustics'
 import { deepFreeze } from './helpers'
 
 describe('schroederFrequency — Schroeder, "The Schroeder frequency revisited", JASA 99(5), 1996', () => {
@@ -128,5 +128,35 @@ describe('bandReverberation', () => {
   it('rejects unknown materials and over-full surfaces', () => {
     expect(() => bandReverberation({ ...everest, surfaces: { ...everest.surfaces, floor: 'lava' } })).toThrow("unknown floor material id 'lava'")
     expect(() => bandReverberation({ ...everest, openings: [{ wall: 'front', kind: 'window', from: 0, to: 6, bottom: 0, top: 2 }] })).toThrow(/lies off the front wall/)
+  })
+})
+
+describe('bandReverberation — panel area to add', () => {
+  const FT = 0.3048
+  const input = {
+    room: { length: 23.3 * FT, width: 16 * FT, height: 10 * FT },
+    surfaces: { front: 'gypsum-on-studs', back: 'gypsum-on-studs', left: 'gypsum-on-studs', right: 'gypsum-on-studs', floor: 'concrete-floor', ceiling: 'gypsum-on-studs' } as const,
+  }
+  it('is the sabins to add over (α_panel − α_wall), and that much panel on the wall brings the Eyring RT onto the target (Eyring closed form)', () => {
+    const r = bandReverberation(input)
+    const t = r.targets.domestic
+    expect(t.panel).toEqual({ materialId: 'porous-panel-50mm', coversSurface: 'left', coversMaterialId: 'gypsum-on-studs' })
+    const panel = getMaterial('porous-panel-50mm').alpha
+    const wall = getMaterial('gypsum-on-studs').alpha
+    for (const b of t.bands) {
+      const i = OCTAVE_BANDS_HZ.indexOf(b.hz as (typeof OCTAVE_BANDS_HZ)[number])
+      const diff = (panel[i] as number) - (wall[i] as number)
+      if (b.extraAbsorptionM2 === 0) { expect(b.panelAreaM2).toBe(0); continue }
+      if (diff <= 0.02) { expect(b.panelAreaM2).toBeNull(); continue }
+      expect(b.panelAreaM2).toBeCloseTo(b.extraAbsorptionM2 / diff, 9)
+      // a perfect absorber would need only the sabins: the panel needs more
+      expect(b.panelAreaM2!).toBeGreaterThan(b.extraAbsorptionM2)
+      // put that much panel on the left wall (as a 1 m high strip) and recompute: Eyring lands on the target in this band
+      const area = b.panelAreaM2!
+      if (area > 0.9 * input.room.length * input.room.height) continue
+      const after = bandReverberation({ ...input, treatments: [{ type: 'panel', materialId: 'porous-panel-50mm', surface: 'left', x: input.room.length / 2, y: 0, z: input.room.height / 2, widthM: area / 1, heightM: 1 }] })
+      const e = after.bands.find((x) => x.hz === b.hz)!.eyring
+      if (area / 1 <= input.room.length) expect(e).toBeCloseTo(b.target, 6)
+    }
   })
 })

@@ -1,6 +1,6 @@
 import { describe, expect, it } from 'vitest'
 import type { SetupFlag, SetupFlagInput } from '../../../shared/acoustics'
-import { SETUP_FLAG_IDS, setupFlags } from '../../../shared/acoustics'
+import { SETUP_FLAG_IDS, lengthsInUnits, setupFlags } from '../../../shared/acoustics'
 import { deepFreeze } from './helpers'
 
 // A well set-up room (our own invented example): 5.9 × 4.3 × 2.55 m, speakers symmetric, seat on the
@@ -27,6 +27,18 @@ describe('setupFlags', () => {
     const flag = f.find((x) => x.id === 'speakers-asymmetric')!
     expect(flag.severity).toBe('problem')
     expect(flag.message).toMatch(/0\.50 m from its side wall/)
+  })
+  it('speaks the listener\'s units: with units "imperial" the same flags say feet and inches (1 ft = 0.3048 m, exact by definition), never metres', () => {
+    const asym = { ...good, speakers: [{ x: 1.1, y: 0.5, z: 1.05 }, { x: 1.1, y: 3.3, z: 1.05 }] }
+    const metric = setupFlags(asym)
+    const imperial = setupFlags({ ...asym, units: 'imperial' })
+    expect(ids(imperial)).toEqual(ids(metric))
+    // 0.50 m = 19.685 in → 1 ft 7.5 in to the nearest half inch
+    expect(imperial.find((x) => x.id === 'speakers-asymmetric')!.message).toMatch(/1 ft 7\.5 in from its side wall/)
+    for (const f of imperial) expect(f.message).not.toMatch(/\d m(?![²³a-zA-Z])/)
+    expect(lengthsInUnits('0.25 m right, 12 ms later, 3.5 m² of panel', 'imperial')).toBe('10 in right, 12 ms later, 3.5 m² of panel')
+    expect(lengthsInUnits('2.00 m', 'imperial')).toBe('6 ft 6.5 in')
+    expect(() => setupFlags({ ...good, units: 'cubits' as 'metric' })).toThrow(RangeError)
   })
   it('seat-off-centreline: the main seat 0.25 m off the centre line', () => {
     const f = setupFlags(withSeat({ x: 3.55, y: 2.4, z: 1.05 }))

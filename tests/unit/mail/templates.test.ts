@@ -13,6 +13,8 @@ const sample: Record<EmailKind, Record<string, unknown>> = {
   'plan-sent': { recipientName: 'Ysolde Marchetti', advisorName: 'Odile Brenner', caseTitle: 'Boom at 43 Hz in the loft', caseId: CASE_ID, summary: '1. Two corner bass traps\n2. Panels at the side-wall reflection points' },
   invitation: { recipientName: 'Tamsin Okafor', inviterName: 'Priya Venkataraman', role: 'advisor', setPasswordUrl: 'https://desk.roomwright.test/set-password?token=q8Zr41&who=tamsin', expiresAt: '2031-03-04T05:06:00Z' },
   welcome: { recipientName: 'Ysolde Marchetti' },
+  'password-reset': { recipientName: 'Ysolde Marchetti', resetUrl: 'https://desk.roomwright.test/reset-password#token=Zp3qLm8', expiresAt: '2031-03-04T05:06:00Z' },
+  'password-changed': { recipientName: 'Ysolde Marchetti', changedAt: '2031-03-04T05:06:00Z', how: 'reset-link' },
 }
 const render = (kind: EmailKind, over: Record<string, unknown> = {}) => renderEmail(kind, { ...sample[kind], ...over } as never)
 const REPLY_HINT = /reply to this e-mail to answer in the case/i
@@ -46,7 +48,7 @@ describe('renderEmail — every kind', () => {
     expect(e.html).toContain(`href="${link}"`)
   })
 
-  it.each(['invitation', 'welcome'] as const)('%s is not about a case, so it has no reply hint', (kind) => {
+  it.each(['invitation', 'welcome', 'password-reset', 'password-changed'] as const)('%s is not about a case, so it has no reply hint', (kind) => {
     const e = render(kind)
     expect(e.html).not.toMatch(REPLY_HINT)
     expect(e.text).not.toMatch(REPLY_HINT)
@@ -70,6 +72,17 @@ describe('renderEmail — every kind', () => {
     const heads = (['submitted', 'closed', 'reopened'] as const).map((status) => render('status-changed', { status }).subject)
     expect(new Set(heads).size).toBe(3)
     expect(render('status-changed', { status: undefined, change: 'received' }).subject).toBe(heads[0])
+  })
+
+  it('password-reset shows the link and its expiry in UTC; password-changed says how and links to sign-in', () => {
+    const e = render('password-reset')
+    expect(e.html).toContain('href="https://desk.roomwright.test/reset-password#token=Zp3qLm8"')
+    expect(e.text).toContain('https://desk.roomwright.test/reset-password#token=Zp3qLm8')
+    expect(e.text).toContain('Tue, 04 Mar 2031 05:06 UTC')
+    const c = render('password-changed')
+    expect(c.text).toContain('with a link sent to this address')
+    expect(c.text).toContain(`${UNIT_PUBLIC_URL}/sign-in`)
+    expect(render('password-changed', { how: 'signed-in' }).text).toContain('while signed in')
   })
 
   it('invitation shows the link (escaped in the href) and the expiry in UTC', () => {

@@ -71,7 +71,7 @@ describe('renderPlanPdf', () => {
       'Measuring again after the changes', 'microphone at ear height at the main seat', 'pointing straight up',
       'moderate level', 'left speaker alone, then the right speaker alone, then both together',
       'fixings rated for the load', 'ceiling clouds', 'fire rating', 'building code', 'qualified electrician', 'defers to local building codes',
-      'Where the absorption figures come from', 'Delany & Bazley',
+      'Where the absorption figures come from', 'Miki',
     ]) expect(text, s).toContain(s)
     predictions.order.forEach((id, i) => expect(text).toContain(`${i + 1}. ${predictions.changes.find((c) => c.id === id)!.title}`))
   })

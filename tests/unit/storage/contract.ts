@@ -135,6 +135,16 @@ export function storageContract(name: string, make: () => Storage): void {
       expect((await s.getBuffer(k)).toString()).toBe(previous.toString())
     })
 
+    it('a stream that fails before the driver starts reading rejects the put (no uncaught error)', async () => {
+      const s = make()
+      const k = key()
+      const failing = new PassThrough()
+      const put = s.put(k, failing)
+      failing.destroy(new Error('client went away at once'))
+      await expect(put).rejects.toThrow()
+      expect(await s.exists(k)).toBe(false)
+    })
+
     it('a failed put of a new key leaves nothing under that key', async () => {
       const s = make()
       const k = key()

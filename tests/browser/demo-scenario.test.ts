@@ -1,0 +1,114 @@
+import { afterAll, beforeAll, describe, expect, it } from 'vitest'
+import type { Browser } from 'playwright-core'
+import { join } from 'node:path'
+import { QueryTypes } from 'sequelize'
+import { launchBrowser, screenshotDir, signInAs, startProduct } from '../helpers/browser'
+import { db } from '../../server/db/sequelize'
+import { seedDemo } from '../../server/seed'
+import { DEMO_PASSWORD } from '../../server/seed/people'
+import type { RunningServer } from '../../server/server'
+
+let server: RunningServer
+let browser: Browser
+const q = <T extends object>(sql: string, bind: unknown[] = []) => db().query<T>(sql, { bind, type: QueryTypes.SELECT })
+
+beforeAll(async () => {
+  await seedDemo()
+  server = await startProduct()
+  browser = await launchBrowser()
+}, 600_000)
+afterAll(async () => {
+  await browser?.close()
+  await server?.close()
+})
+
+describe('the demo scenario — every seeded case is consistent with its status', () => {
+  it('shows every status of the lifecycle, with the named demo people and the invented history', async () => {
+    const rows = await q<{ status: string; n: number }>(`SELECT status::text, count(*)::int AS n FROM cases GROUP BY status`)
+    expect(rows.map((r) => r.status).sort()).toEqual(['closed', 'draft', 'in_review', 'plan_sent', 'submitted', 'waiting_on_listener'])
+  })
+
+  it('every case that reached "plan sent" holds the sent plan; every closed case has a rating', async () => {
+    const withoutPlan = await q<{ id: string; status: string }>(`
+      SELECT c.id, c.status::text FROM cases c
+       WHERE (c.status = 'plan_sent' OR EXISTS (SELECT 1 FROM case_events e WHERE e.case_id = c.id AND e.to_status = 'plan_sent'))
+         AND NOT EXISTS (SELECT 1 FROM treatment_plans p WHERE p.case_id = c.id AND p.sent_at IS NOT NULL)`)
+    expect(withoutPlan).toEqual([])
+    const planSent = await q<{ n: number }>(`SELECT count(*)::int AS n FROM cases WHERE status = 'plan_sent'`)
+    expect(planSent[0].n).toBeGreaterThanOrEqual(2)
+    const unrated = await q<{ id: string }>(`SELECT c.id FROM cases c WHERE c.status = 'closed' AND NOT EXISTS (SELECT 1 FROM case_ratings r WHERE r.case_id = c.id)`)
+    expect(unrated).toEqual([])
+    // a plan is sent after it was written, by someone on the team
+    const odd = await q<{ id: string }>(`SELECT p.id FROM treatment_plans p LEFT JOIN users u ON u.id = p.sent_by WHERE p.sent_at IS NOT NULL AND (p.sent_at < p.created_at OR u.role = 'listener' OR u.id IS NULL)`)
+    expect(odd).toEqual([])
+  })
+
+  it('every measurement file sent is analysed, and no message speaks of files a case does not have', async () => {
+    await expect.poll(async () => (await q<{ n: number }>(`SELECT count(*)::int AS n FROM files WHERE kind = 'measurement' AND analysis_status IS DISTINCT FROM 'done'`))[0].n, { timeout: 300_000, interval: 2000 }).toBe(0)
+    const files = await q<{ n: number }>(`SELECT count(*)::int AS n FROM files WHERE kind = 'measurement'`)
+    expect(files[0].n).toBeGreaterThanOrEqual(5)
+    const claims = await q<{ body: string }>(`
+      SELECT m.body FROM messages m JOIN users u ON u.id = m.author_id
+       WHERE u.role = 'listener' AND m.body ~* '(here are|attached|upload)' AND NOT EXISTS (SELECT 1 FROM files f WHERE f.case_id = m.case_id)`)
+    expect(claims).toEqual([])
+  })
+
+  it('the queue has variety: the open cases span rooms of different sizes and different flags', async () => {
+    const top = await q<{ dims: string; flags: string; title: string }>(`
+      SELECT concat(v.body->>'length', 'x', v.body->>'width') AS dims, array_to_string(c.flag_ids, ',') AS flags, c.title
+        FROM cases c JOIN room_revisions v ON v.room_id = c.room_id AND v.revision = c.room_revision
+       WHERE c.status <> 'closed' AND c.status <> 'draft' ORDER BY c.score DESC NULLS LAST LIMIT 25`)
+    expect(new Set(top.map((r) => r.dims)).size).toBeGreaterThanOrEqual(8)
+    expect(new Set(top.map((r) => r.flags)).size).toBeGreaterThanOrEqual(6)
+    const mostCommon = Math.max(...[...new Set(top.map((r) => r.dims))].map((d) => top.filter((r) => r.dims === d).length))
+    expect(mostCommon).toBeLessThanOrEqual(6)
+    // the rooms the scenario promises: a small studio, a sofa on the back wall, a cinema with a subwoofer, a sloped attic ceiling
+    const rooms = await q<{ body: { length: number; width: number; notes: string; subwoofers: unknown[]; seats: { x: number }[] } }>(`SELECT body FROM room_revisions`)
+    expect(rooms.some((r) => r.body.length * r.body.width < 10)).toBe(true)
+    expect(rooms.some((r) => r.body.length - r.body.seats[0].x < 0.5 && /sofa/i.test(r.body.notes))).toBe(true)
+    expect(rooms.some((r) => r.body.subwoofers.length > 0 && /cinema/i.test(r.body.notes))).toBe(true)
+    expect(rooms.some((r) => /slop/i.test(r.body.notes))).toBe(true)
+  })
+
+  it('the demo listener opens her case with a plan and reads its steps and predicted result (screenshot saved)', async () => {
+    const context = await browser.newContext({ viewport: { width: 1280, height: 900 } })
+    const page = await signInAs(context, server.url, 'listener@roomwright.test', DEMO_PASSWORD)
+    await page.waitForURL(/\/(cases|rooms|home)?/)
+    const [c] = await q<{ id: string }>(`SELECT c.id FROM cases c JOIN users u ON u.id = c.listener_id WHERE u.email = 'listener@roomwright.test' AND c.status = 'plan_sent'`)
+    expect(c).toBeTruthy()
+    await page.goto(`${server.url}/cases/${c.id}`)
+    const plan = page.getByTestId('plan-for-listener')
+    await expect.poll(() => plan.textContent(), { timeout: 30_000 }).toMatch(/What to do, in this order/)
+    await expect.poll(() => plan.textContent()).toMatch(/corner/i)
+    await expect.poll(() => page.getByTestId('analysis-status-done').count(), { timeout: 30_000 }).toBeGreaterThanOrEqual(2)
+    await page.screenshot({ path: join(screenshotDir(), 'demo-listener-plan.png'), fullPage: true })
+    await context.close()
+  })
+
+  it('a seeded snippet inserts with each unit once, the preview shows what the listener reads, and unknown placeholders are refused', async () => {
+    const snippets = await q<{ title: string }>(`SELECT title FROM reply_snippets WHERE scope = 'team'`)
+    expect(snippets.length).toBeGreaterThanOrEqual(5)
+    const [c] = await q<{ id: string }>(`SELECT c.id FROM cases c JOIN users u ON u.id = c.listener_id WHERE u.email = 'jonas.mbeki@roomwright.test' AND c.status = 'in_review'`)
+    const context = await browser.newContext({ viewport: { width: 1440, height: 900 } })
+    const page = await signInAs(context, server.url, 'advisor@roomwright.test', DEMO_PASSWORD)
+    await page.waitForURL(/\/queue(\?|$)/)
+    await page.goto(`${server.url}/desk/cases/${c.id}`)
+    await page.getByTestId('snippet-picker').click()
+    await page.getByTestId('snippet-item').filter({ hasText: 'first look at the room' }).click()
+    const text = page.getByTestId('composer-input').locator('textarea').first()
+    await expect.poll(() => text.inputValue()).toMatch(/lowest room mode sits at \d+(\.\d)? Hz,/)
+    expect(await text.inputValue()).not.toMatch(/Hz Hz|\{\{/)
+    await page.getByTestId('composer-preview').click()
+    await expect.poll(() => page.getByTestId('composer-preview-pane').textContent()).toMatch(/What the listener will read.*Hello Jonas Mbeki/s)
+
+    await page.getByRole('button', { name: 'Write' }).click()
+    await text.fill('Hi {{listener.first}}, the mode at {{room.firstAxialHz}} Hz matters.')
+    await expect.poll(() => page.getByTestId('composer-leftover').textContent()).toMatch(/\{\{listener\.first\}\}/)
+    await page.getByTestId('snippet-picker').click()
+    await page.getByTestId('snippet-save').click()
+    await page.getByTestId('snippet-title').locator('input').fill('Broken placeholder')
+    await expect.poll(() => page.getByTestId('snippet-placeholder-problem').textContent()).toMatch(/\{\{listener\.first\}\} is not a placeholder; use one of .*\{\{listener\.name\}\}/)
+    expect(await page.getByTestId('snippet-title-save').isDisabled()).toBe(true)
+    await context.close()
+  })
+})
