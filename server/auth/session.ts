@@ -30,8 +30,9 @@ const tooMany: Parameters<typeof rateLimit>[0] = {
  * invitation): LOGIN_RATE_LIMIT failures in SIGN_IN_WINDOW_MINUTES. High by default, as one office behind
  * a proxy shares an address; the per-account limit below is the tight one.
  */
-export function passwordAttemptLimiter(): RequestHandler {
-  return rateLimit({ ...tooMany, windowMs: config().SIGN_IN_WINDOW_MINUTES * 60_000, limit: config().LOGIN_RATE_LIMIT, identifier: 'address' })
+export function passwordAttemptLimiter(opts: { countSuccess?: boolean } = {}): RequestHandler {
+  // reset-link requests answer 202 whether or not the address exists: every one of them counts
+  return rateLimit({ ...tooMany, skipSuccessfulRequests: !opts.countSuccess, windowMs: config().SIGN_IN_WINDOW_MINUTES * 60_000, limit: config().LOGIN_RATE_LIMIT, identifier: 'address' })
 }
 
 /**

@@ -16,7 +16,7 @@ export function authRouter(): Router {
   const limiter = passwordAttemptLimiter()
   const perAccount = accountFailureLimiter()
   // Its own budget per client address, so asking for reset links does not eat into sign-in attempts (and the reverse).
-  const resetLimiter = passwordAttemptLimiter()
+  const resetLimiter = passwordAttemptLimiter({ countSuccess: true })
 
   router.get('/csrf', (req, res) => res.json({ token: csrfToken(req) }))
 
