@@ -106,7 +106,9 @@ const targets: Target[] = [
   {
     route: 'POST /api/inbound/email', as: () => signedOut, headers: { [INBOUND_SECRET_HEADER]: config().INBOUND_EMAIL_SECRET },
     valid: () => ({ to: `reply+${replyToken}@${config().MAIL_REPLY_DOMAIN}`, from: listener.user.email, subject: 'Re: your case', text: 'We moved the sofa.' }),
-    footprint: () => count('SELECT count(*)::int AS n FROM messages WHERE case_id = $1', [caseId]), ok: [201],
+    // a reply from a stranger's address is refused (403) but kept as a staff-only note for the advisor
+    // (SECURITY.md, inbound e-mail): what must not change is what the thread shows as the listener's
+    footprint: () => count('SELECT count(*)::int AS n FROM messages WHERE case_id = $1 AND NOT internal', [caseId]), ok: [201],
   },
 ]
 
