@@ -57,7 +57,7 @@ describe('on a 390 px phone no page scrolls sideways', () => {
     ]
     const wide: Record<string, unknown> = {}
     for (const [who, paths] of visits) {
-      const context = await browser.newContext({ viewport: PHONE, hasTouch: true })
+      const context = await browser.newContext({ viewport: PHONE, isMobile: true, hasTouch: true })
       const page = await signInAs(context, server.url, who.email, who.password)
       await page.waitForURL((u) => !u.pathname.startsWith('/sign-in'))
       for (const path of paths) {
