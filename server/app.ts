@@ -11,6 +11,7 @@ import { csrfProtection } from './middleware/csrf'
 import { rejectNulCharacters } from './middleware/validate'
 import { errorHandler, notFoundHandler } from './middleware/errors'
 import { apiRouter } from './routes'
+import { closeAnalysisPool } from './analysis/pool'
 
 export interface BuiltApp {
   app: express.Express
@@ -79,5 +80,6 @@ export function createApp(opts: { clientDir?: string | false } = {}): BuiltApp {
   }
   app.use(errorHandler)
 
-  return { app, sessionMiddleware, close: async () => sessionPool.end() }
+  // the worker pool runs the room engine for requests too (preview, save, submit): its threads end with the app
+  return { app, sessionMiddleware, close: async () => { await closeAnalysisPool(); await sessionPool.end() } }
 }

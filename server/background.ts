@@ -29,6 +29,9 @@ export async function startBackground(opts: { http?: Server; sessionMiddleware?:
       throw e
     }
     stops.push(stopJobs)
+    // what a crash mid-upload left behind: at start, then hourly
+    const { startStorageSweep } = await import('./storage/sweep')
+    stops.push(startStorageSweep())
   }
   return {
     stop: async () => {

@@ -1,6 +1,7 @@
 import { availableParallelism } from 'node:os'
 import Piscina from 'piscina'
 import { log } from '../lib/log'
+import type { EngineTaskName, EngineTaskReply, EngineTasks } from './engine-tasks'
 
 export interface AnalysisPoolOptions {
   /** worker threads; default one less than the cores, at least 1 */
@@ -13,7 +14,7 @@ export interface AnalysisPoolOptions {
 
 const WORKER = new URL('./worker-bootstrap.mjs', import.meta.url).href
 
-/** A worker-thread pool running server/analysis/worker.ts. */
+/** A worker-thread pool running server/analysis/worker.ts (measurement analysis and the room engine's tasks). */
 export function createAnalysisPool(opts: AnalysisPoolOptions = {}): Piscina {
   const maxThreads = opts.maxThreads ?? Math.max(1, availableParallelism() - 1)
   const pool = new Piscina({
@@ -42,4 +43,35 @@ export async function closeAnalysisPool(): Promise<void> {
   const p = shared
   shared = undefined
   await p?.destroy()
+}
+
+/** Longest one engine task may take, queueing included, ms; the accepted rooms finish well under a second. */
+export const ENGINE_TASK_TIMEOUT_MS = 30_000
+
+/** The engine task did not finish (worker crashed or overran); the caller answers 503. */
+export class EngineTaskFailedError extends Error {
+  constructor(message: string) {
+    super(message)
+    this.name = 'EngineTaskFailedError'
+  }
+}
+
+/**
+ * Runs one of the engine's tasks (engine-tasks.ts) in the worker pool, off the event loop.
+ * @throws RangeError with the engine's message for impossible input
+ * @throws EngineTaskFailedError when the worker crashed or the task overran ENGINE_TASK_TIMEOUT_MS
+ */
+export async function runEngineTask<N extends EngineTaskName>(
+  name: N, ...args: Parameters<EngineTasks[N]>
+): Promise<ReturnType<EngineTasks[N]>> {
+  let reply: EngineTaskReply
+  try {
+    reply = await analysisPool().run({ name, args }, { name: 'engine', signal: AbortSignal.timeout(ENGINE_TASK_TIMEOUT_MS) })
+  } catch (err) {
+    const e = err as { name?: string; message?: string }
+    if (e?.name === 'AbortError' || e?.name === 'TimeoutError') throw new EngineTaskFailedError(`the engine task "${name}" took longer than ${ENGINE_TASK_TIMEOUT_MS / 1000} s and was stopped`)
+    throw new EngineTaskFailedError(`the engine task "${name}" failed: ${e?.message ?? String(err)}`)
+  }
+  if (!reply.ok) throw new RangeError(reply.error.message)
+  return reply.value as ReturnType<EngineTasks[N]>
 }

@@ -5,4 +5,5 @@ import { tsImport } from 'tsx/esm/api'
 const worker = await tsImport('./worker.ts', import.meta.url)
 
 export default worker.default
+export const engine = worker.engine
 export const subwooferSearch = worker.subwooferSearch

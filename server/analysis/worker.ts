@@ -1,9 +1,11 @@
 /**
- * Piscina worker: parses and analyses one measurement file. Runs in a worker thread,
+ * Piscina worker: parses and analyses one measurement file (the default export), or runs one of the
+ * room engine's tasks by name (the `engine` export, see engine-tasks.ts). Runs in a worker thread,
  * so a file that makes the analysis crash, hang or exhaust memory takes down only
  * this thread. Loaded through worker-bootstrap.mjs, which registers tsx.
  */
 import { analyzeMeasurementBytes, MeasurementFileError } from '../../shared/signal/index'
+import { runEngineTaskHere, type EngineTaskReply, type EngineTaskRequest } from './engine-tasks'
 import { subwooferAdvice } from '../../shared/acoustics/subwoofer-advice'
 import type { SubwooferAdvice } from '../../shared/acoustics/subwoofer-advice'
 import type { RoomDescription } from '../../shared/acoustics/triage'
@@ -32,6 +34,11 @@ export default function analyzeTask(task: AnalysisTask): AnalysisReply {
     if (err instanceof MeasurementFileError) return { ok: false, error: err.toJSON() }
     throw err
   }
+}
+
+/** One engine task (room analysis, plan predictions …) by name: `pool.run(req, { name: 'engine' })`. */
+export function engine(req: EngineTaskRequest): EngineTaskReply {
+  return runEngineTaskHere(req)
 }
 
 export interface SubwooferTask {

@@ -46,6 +46,7 @@ async function main(): Promise<number> {
         CHROMIUM_PATH: CHROMIUM,
         TEST_TMP: home,
         LOGIN_RATE_LIMIT: process.env.LOGIN_RATE_LIMIT ?? '100000',
+        SIGN_IN_FAILURES_PER_ACCOUNT: process.env.SIGN_IN_FAILURES_PER_ACCOUNT ?? '100000',
       },
     })
     let passed = 0, failed = 0, skipped = 0

@@ -13,7 +13,7 @@ export function roomsRouter(): Router {
   const router = Router()
   router.get('/', requireRole('listener'), async (req, res) => res.json({ rooms: await listMyRooms(currentUser(req)) }))
   router.post('/', requireRole('listener'), validate(roomSchema), async (req, res) => res.status(201).json(await createRoom(currentUser(req), res.locals.body)))
-  router.post('/preview', requireSignedIn, validate(roomSchema), async (req, res) => res.json(await previewRoom(res.locals.body, currentUser(req).id)))
+  router.post('/preview', requireSignedIn, validate(roomSchema), async (req, res) => res.type('json').send(await previewRoom(res.locals.body, currentUser(req).id)))
   router.post('/subwoofers', requireSignedIn, validate(subwooferSearchRequestSchema), async (_req, res) =>
     res.json(await searchRoomSubwoofers(res.locals.body.room, res.locals.body.counts)))
   router.get('/:id', requireSignedIn, id, validate(revisionQuerySchema, 'query'), async (req, res) =>

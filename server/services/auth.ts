@@ -2,6 +2,7 @@ import bcrypt from 'bcryptjs'
 import { randomBytes } from 'node:crypto'
 import { findUserByEmail, findUserById, insertUser, toPublicUser, updateUser } from '../data/users'
 import { AppError, conflict } from '../errors'
+import { assertStrongPassword } from '../auth/password-strength'
 import type { Preferences, RegisterInput, User } from '../../shared/schemas/auth'
 
 /** bcrypt cost factor: 12 rounds in production (OWASP Password Storage Cheat Sheet: at least 10). */
@@ -32,6 +33,7 @@ export async function verifyCredentials(email: string, password: string): Promis
 }
 
 export async function registerListener(input: RegisterInput): Promise<User> {
+  assertStrongPassword(input.password, [input.email, input.name])
   if (await findUserByEmail(input.email)) throw conflict('An account with that e-mail already exists', 'email_taken')
   return toPublicUser(await insertUser({ email: input.email, name: input.name, role: 'listener', passwordHash: await hashPassword(input.password) }))
 }

@@ -10,7 +10,7 @@ import type { CaseDetail, CaseStatus, CreateCaseInput, UpdateCaseInput } from '.
 import { createCaseSchema } from '../../shared/schemas/case'
 import type { User } from '../../shared/schemas/auth'
 import { isStaff, readableCase } from './access'
-import { computeAndStoreTriage } from './triage'
+import { prepareTriage, storeTriage, type PreparedAnalysis } from './triage'
 import { publishCase, publishQueue } from './live'
 import { notifyListener } from './notify'
 
@@ -41,6 +41,18 @@ export async function updateCase(user: User, caseId: string, patch: UpdateCaseIn
   }
   if (patch.assigneeId !== undefined && !isStaff(user)) throw forbidden('Only advisors and supervisors assign cases')
 
+  // A submission's triage is computed here, in the worker pool, before the transaction opens.
+  let prepared: PreparedAnalysis | undefined
+  if (patch.status === 'submitted' && current.status === 'draft') {
+    if (patch.roomId) {
+      const room = await findRoom(patch.roomId)
+      if (!room || room.ownerId !== user.id) throw badRequest('Choose one of your own rooms', [{ path: 'roomId', message: 'not one of your rooms' }])
+      prepared = await prepareTriage(room.id)
+    } else {
+      prepared = await prepareTriage(current.room.id, current.room.revision)
+    }
+  }
+
   await withTransaction(async (t, afterCommit) => {
     if (edits) {
       let roomRevision: number | undefined
@@ -53,7 +65,7 @@ export async function updateCase(user: User, caseId: string, patch: UpdateCaseIn
     }
     if (patch.assigneeId !== undefined) await assign(user, current, patch.assigneeId, patch.handoffNote, t)
     if (patch.status && patch.status !== current.status) {
-      await moveCase(user, caseId, current.status, patch.status, t, afterCommit)
+      await moveCase(user, caseId, current.status, patch.status, t, afterCommit, {}, prepared)
     } else if (patch.status && patch.fromStatus === undefined && patch.status === current.status && !edits && patch.assigneeId === undefined) {
       throw conflict(`The case is already "${current.status}"`, 'stale')
     }
@@ -65,8 +77,11 @@ export async function updateCase(user: User, caseId: string, patch: UpdateCaseIn
   return (await findCase(caseId))!
 }
 
-/** A status move checked against the lifecycle; a move from a state the case has already left answers 409. */
-export async function moveCase(user: User, caseId: string, from: CaseStatus, to: CaseStatus, t: Transaction, afterCommit: (cb: () => void) => void, data: object = {}) {
+/**
+ * A status move checked against the lifecycle; a move from a state the case has already left answers 409.
+ * A submission stores the triage `prepared` before the transaction (no engine work in a transaction).
+ */
+export async function moveCase(user: User, caseId: string, from: CaseStatus, to: CaseStatus, t: Transaction, afterCommit: (cb: () => void) => void, data: object = {}, prepared?: PreparedAnalysis) {
   const c = await findCase(caseId, t)
   if (!c) throw notFound('That case')
   if (user.role === 'listener' && c.listenerId !== user.id) throw notFound('That case')
@@ -75,7 +90,10 @@ export async function moveCase(user: User, caseId: string, from: CaseStatus, to:
   }
   if (!(await updateStatus(caseId, from, to, t))) throw conflict('Someone else changed this case first; reload to see what changed', 'stale')
   const seq = await insertEvent({ caseId, actorId: user.id, kind: from === 'closed' ? 'reopened' : 'status', fromStatus: from, toStatus: to, data }, t)
-  if (to === 'submitted' && from === 'draft') await computeAndStoreTriage(caseId, t)
+  if (to === 'submitted' && from === 'draft') {
+    if (!prepared) throw new Error('a submission needs its triage prepared (prepareTriage) before the transaction')
+    await storeTriage(caseId, prepared, t)
+  }
   if (isStaff(user) && from === 'submitted' && to === 'in_review' && !c.assignee) {
     await setAssignee(caseId, user.id, undefined, t)
     await insertEvent({ caseId, actorId: user.id, kind: 'assigned', data: { assigneeId: user.id, assigneeName: user.name } }, t)

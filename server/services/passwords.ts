@@ -1,3 +1,4 @@
+import { assertStrongPassword } from '../auth/password-strength'
 import bcrypt from 'bcryptjs'
 import { randomBytes } from 'node:crypto'
 import { withTransaction } from '../db/transaction'
@@ -34,6 +35,7 @@ const linkGone = () =>
  * and the account's address is told.
  */
 export async function changePassword(user: User, sessionId: string, input: ChangePasswordInput): Promise<{ sessionsEnded: number }> {
+  assertStrongPassword(input.newPassword, [user.email, user.name], 'newPassword')
   const newHash = await hashPassword(input.newPassword)
   return withTransaction(async (t, afterCommit) => {
     const u = await findUserForUpdate(user.id, t)
@@ -88,6 +90,7 @@ export const passwordResetsSettled = () => Promise.allSettled([...pending]).then
  * unknown link — or a switched-off account — answers 410.
  */
 export async function resetPassword(input: PasswordResetInput): Promise<void> {
+  assertStrongPassword(input.password)
   const newHash = await hashPassword(input.password)
   await withTransaction(async (t, afterCommit) => {
     const link = await findResetTokenForUse(hashToken(input.token), t)

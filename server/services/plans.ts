@@ -49,7 +49,7 @@ export async function createPlan(user: User, caseId: string, input: PlanBodyInpu
   if (c.status === 'closed') throw conflict('This case is closed; reopen it before revising the plan', 'closed')
   const body = planBodySchema.parse(input)
   const room = await caseRoom(c.room.id, c.room.revision)
-  const predictions = planPredictions(room, body)
+  const predictions = await planPredictions(room, body)
   const version = await withTransaction(async (t, afterCommit) => {
     const v = await insertPlanVersion({ caseId, roomId: c.room.id, roomRevision: c.room.revision, body, predictions, engineVersion: ENGINE_VERSION, createdBy: user.id }, t)
     const seq = await insertEvent({ caseId, actorId: user.id, kind: 'plan-saved', data: { version: v, internal: true } }, t)
@@ -112,7 +112,7 @@ export async function previewPlan(user: User, caseId: string, input: PlanBodyInp
   if (!isStaff(user)) throw forbidden('Only advisors and supervisors preview plans')
   const c = await readableCase(user, caseId)
   const room = await caseRoom(c.room.id, c.room.revision)
-  return { roomRevision: c.room.revision, ...planPreview(room, planBodySchema.parse(input)) }
+  return { roomRevision: c.room.revision, ...(await planPreview(room, planBodySchema.parse(input))) }
 }
 
 /** The printable PDF of a version (same access as reading it). */

@@ -7,7 +7,7 @@ import { materialIds } from '../../shared/acoustics'
 import type { Room, RoomRecord } from '../../shared/schemas/room'
 import type { User } from '../../shared/schemas/auth'
 import { readableRoom } from './access'
-import { analyseRoom, computeAndStoreTriage } from './triage'
+import { analyseRoomOffThread, analyseRoomOffThreadJson, assertWithinEngineLimits, storeTriage } from './triage'
 import { findUserById } from '../data/users'
 import { publishCase, publishQueue } from './live'
 
@@ -23,6 +23,7 @@ export function checkMaterials(room: Room) {
 
 export async function createRoom(user: User, room: Room): Promise<RoomRecord> {
   checkMaterials(room)
+  assertWithinEngineLimits(room)
   return insertRoom(user.id, room)
 }
 
@@ -34,12 +35,14 @@ export async function getRoom(user: User, id: string, revision?: number): Promis
 
 /**
  * Saving a room makes a new revision (old ones stay readable). Every open, submitted case on the room
- * moves to the new revision and gets a fresh triage; a draft just follows the room.
+ * moves to the new revision and gets a fresh triage; a draft just follows the room. The engine runs
+ * first, in the worker pool; the transaction only writes.
  */
 export async function saveRoomRevision(user: User, id: string, room: Room): Promise<RoomRecord> {
   checkMaterials(room)
   const existing = await findRoom(id)
   if (!existing || existing.ownerId !== user.id) throw notFound('That room')
+  const prepared = { roomId: id, revision: null, analysis: await analyseRoomOffThread(room) }
   const touched: string[] = []
   const saved = await withTransaction(async (t, afterCommit) => {
     const saved = await addRoomRevision(id, room, user.id, t)
@@ -47,7 +50,7 @@ export async function saveRoomRevision(user: User, id: string, room: Room): Prom
       await updateCaseFields(c.id, { roomRevision: saved.revision }, t)
       if (c.status !== 'draft') {
         await insertEvent({ caseId: c.id, actorId: user.id, kind: 'room-revised', data: { revision: saved.revision } }, t)
-        await computeAndStoreTriage(c.id, t)
+        await storeTriage(c.id, prepared, t)
         touched.push(c.id)
       }
     }
@@ -57,9 +60,9 @@ export async function saveRoomRevision(user: User, id: string, room: Room): Prom
   return saved
 }
 
-/** The engine's preview, its setup-flag messages in the signed-in person's units. */
-export async function previewRoom(room: Room, userId?: string) {
+/** The engine's analysis of an unsaved room as JSON text, computed and serialised in the worker pool; setup-flag messages in the signed-in person's units. */
+export async function previewRoom(room: Room, userId?: string): Promise<string> {
   checkMaterials(room)
   const units = userId ? (await findUserById(userId))?.units ?? 'metric' : 'metric'
-  return analyseRoom(room, units)
+  return analyseRoomOffThreadJson(room, units)
 }

@@ -1,3 +1,4 @@
+import { assertStrongPassword } from '../auth/password-strength'
 import { createHash, randomBytes } from 'node:crypto'
 import { QueryTypes, type Transaction } from 'sequelize'
 import { db } from '../db/sequelize'
@@ -175,6 +176,7 @@ export async function previewInvitation(token: string): Promise<InvitationPrevie
 
 /** Uses the link once: creates the account with the chosen password. The caller signs the new user in. */
 export async function acceptInvitation(input: AcceptInvitationInput): Promise<User> {
+  assertStrongPassword(input.password, input.name ? [input.name] : [])
   const passwordHash = await hashPassword(input.password)
   return withTransaction(async (t) => {
     const [row] = await select<InvitationRow>(`${invitationSelect} WHERE i.token_hash = $1 FOR UPDATE OF i`, [hashToken(input.token)], t)

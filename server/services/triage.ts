@@ -5,10 +5,11 @@ import { countEvidence } from '../data/files'
 import { findRoom } from '../data/rooms'
 import { findUserById } from '../data/users'
 import { insertEvent } from '../data/events'
-import { computeRoomAnalysis, ENGINE_VERSION } from '../../shared/acoustics'
+import { computeRoomAnalysis, ENGINE_VERSION, type RoomAnalysis } from '../../shared/acoustics'
 import { flattenReflections, type TriageHistoryEntry, type TriageSnapshot } from '../../shared/schemas/triage'
-import type { Room } from '../../shared/schemas/room'
-import { notFound } from '../errors'
+import { engineLimitIssues, type Room } from '../../shared/schemas/room'
+import { AppError, conflict, notFound } from '../errors'
+import { EngineTaskFailedError, runEngineTask } from '../analysis/pool'
 
 export type { TriageSnapshot }
 
@@ -29,14 +30,53 @@ export function triageScore(flags: { severity: string }[], info: { measurements:
   return { score: parts.reduce((s, p) => s + p.points, 0), parts }
 }
 
-/** The engine's analysis; `units` is the listener's choice, used for lengths in the setup-flag messages. */
+/** In this thread: for the seed and tests only (requests use analyseRoomOffThread). `units`: lengths in the setup-flag messages. */
 export function analyseRoom(room: Room, units: 'metric' | 'imperial' = 'metric') {
   return computeRoomAnalysis(room, { units })
 }
 
+/** 422 naming the limit when the room is beyond what the engine accepts (ROOM_LIMITS in shared/schemas/room.ts). */
+export function assertWithinEngineLimits(room: Room): void {
+  const issues = engineLimitIssues(room)
+  if (issues.length) {
+    throw new AppError(`This room is beyond what Roomwright analyses: ${issues[0].message}`, {
+      status: 422, code: 'beyond_engine_limits', fields: issues.map((i) => ({ path: i.path, message: i.message })),
+    })
+  }
+}
+
+/**
+ * The complete analysis in the worker pool, never on the event loop (a large room takes the engine
+ * far longer than a request may hold the loop). Checks the limits first; the engine's RangeError for an
+ * impossible room answers 422 with its physical reason; a crashed or overrun worker 503.
+ */
+export async function analyseRoomOffThread(room: Room, units: 'metric' | 'imperial' = 'metric'): Promise<RoomAnalysis> {
+  return offThread(room, () => runEngineTask('roomAnalysis', room, { units }))
+}
+
+/** The analysis as JSON text, serialised in the worker (for answering it as it is). */
+export async function analyseRoomOffThreadJson(room: Room, units: 'metric' | 'imperial' = 'metric'): Promise<string> {
+  return offThread(room, () => runEngineTask('roomAnalysisJson', room, { units }))
+}
+
+async function offThread<T>(room: Room, run: () => Promise<T>): Promise<T> {
+  assertWithinEngineLimits(room)
+  try {
+    return await run()
+  } catch (e) {
+    if (e instanceof RangeError) throw new AppError(`The engine cannot analyse this room: ${e.message}`, { status: 422, code: 'engine_refused' })
+    if (e instanceof EngineTaskFailedError) throw new AppError('The room engine is busy; please try again in a moment', { status: 503, code: 'engine_unavailable' })
+    throw e
+  }
+}
+
 /** The snapshot for one room revision: pure, so it is golden-tested without a database. */
 export function buildTriageSnapshot(room: Room, roomRevision: number, info: { measurements: number; photos: number; descriptionLength: number }, computedAt: Date, units: 'metric' | 'imperial' = 'metric'): TriageSnapshot {
-  const a = analyseRoom(room, units)
+  return snapshotFromAnalysis(analyseRoom(room, units), roomRevision, info, computedAt)
+}
+
+/** The snapshot from an analysis already made (in the worker): cheap, fit for inside a transaction. */
+export function snapshotFromAnalysis(a: RoomAnalysis, roomRevision: number, info: { measurements: number; photos: number; descriptionLength: number }, computedAt: Date): TriageSnapshot {
   const { score, parts } = triageScore(a.flags, info)
   return {
     engineVersion: ENGINE_VERSION,
@@ -57,16 +97,46 @@ export function buildTriageSnapshot(room: Room, roomRevision: number, info: { me
   }
 }
 
-/** Computes the triage for the case's room revision with the engine and stores it with the engine's version. */
-export async function computeAndStoreTriage(caseId: string, t?: Transaction): Promise<TriageSnapshot> {
+/** An analysis made before a transaction, for one room revision. */
+export interface PreparedAnalysis { roomId: string; revision: number | null; analysis: RoomAnalysis }
+
+/**
+ * Analyses a room revision in the worker, before any transaction opens (the write that follows stays short).
+ * `revision` null: the analysis is of room content about to be saved as a new revision.
+ */
+export async function prepareTriage(roomId: string, revision?: number): Promise<PreparedAnalysis> {
+  const room = await findRoom(roomId, revision)
+  if (!room) throw notFound('That room')
+  // setup-flag messages in the listener's units (the listener reads them on the case page)
+  const units = (await findUserById(room.ownerId))?.units ?? 'metric'
+  return { roomId, revision: room.revision, analysis: await analyseRoomOffThread(room.room, units) }
+}
+
+/**
+ * Computes the triage for the case's room revision with the engine (in the worker) and stores it:
+ * outside any transaction (the seed, jobs). Inside a transaction use storeTriage with a prepared analysis.
+ */
+export async function computeAndStoreTriage(caseId: string): Promise<TriageSnapshot> {
+  const c = await findCase(caseId)
+  if (!c) throw notFound('That case')
+  const prepared = await prepareTriage(c.room.id, c.room.revision)
+  return storeTriage(caseId, prepared)
+}
+
+/**
+ * Stores the triage of a case from an analysis made beforehand (no engine work here: this runs inside
+ * the caller's transaction). The case must still be on the analysed room revision, or 409 stale.
+ */
+export async function storeTriage(caseId: string, prepared: PreparedAnalysis, t?: Transaction): Promise<TriageSnapshot> {
   const c = await findCase(caseId, t)
   if (!c) throw notFound('That case')
+  if (c.room.id !== prepared.roomId || (prepared.revision !== null && c.room.revision !== prepared.revision)) {
+    throw conflict('The room changed while the case was being sent; reload and try again', 'stale')
+  }
   const room = await findRoom(c.room.id, c.room.revision, t)
   if (!room) throw notFound('That room')
   const counts = await countEvidence(caseId, t)
-  // setup-flag messages in the listener's units (the listener reads them on the case page)
-  const units = (await findUserById(c.listenerId))?.units ?? 'metric'
-  const snapshot = buildTriageSnapshot(room.room, room.revision, { ...counts, descriptionLength: c.description.length }, new Date(), units)
+  const snapshot = snapshotFromAnalysis(prepared.analysis, room.revision, { ...counts, descriptionLength: c.description.length }, new Date())
   const score = snapshot.score
   await models().TriageSnapshot.create({ caseId, roomRevision: room.revision, engineVersion: ENGINE_VERSION, body: snapshot, score }, { transaction: t })
   await setScore(caseId, score, snapshot.flags.map((f) => ({ id: f.id, severity: f.severity })), t)

@@ -1,4 +1,5 @@
 import { z } from 'zod'
+import { bandReverberation, modeCountEstimate, type RoomDescription } from '../acoustics'
 
 export const surfaces = ['front', 'back', 'left', 'right', 'floor', 'ceiling'] as const
 export const surfaceSchema = z.enum(surfaces)
@@ -8,9 +9,38 @@ export const speakerKinds = ['sealed', 'ported-front', 'ported-rear', 'open-baff
 export const openingKinds = ['door', 'window', 'fireplace', 'open-shelving', 'alcove', 'open-doorway'] as const
 export const treatmentTypes = ['panel', 'bass-trap', 'corner-trap', 'cloud', 'diffuser', 'rug', 'curtain'] as const
 
+/**
+ * What the room engine accepts: Roomwright is for listening rooms, home studios and home cinemas, and
+ * these bounds keep the worst accepted room's complete analysis well under a second (see `npm run bench`,
+ * "engine: worst accepted room"). The counts and dimensions are schema limits (400 with the field path);
+ * the pairs and mode counts depend on several fields and are checked by `engineLimitIssues` (the server
+ * answers 422 `beyond_engine_limits`, the client shows the same sentence instead of a preview).
+ */
+export const ROOM_LIMITS = {
+  /** metres */
+  length: 40,
+  width: 40,
+  height: 15,
+  speakers: 16,
+  subwoofers: 8,
+  seats: 12,
+  openings: 40,
+  treatments: 60,
+  furnishings: 40,
+  /** speakers × seats: the reflections are traced for every pair */
+  speakerSeatPairs: 64,
+  /** modes summed for the modal response and the position search (up to MODAL_SUM_HZ) */
+  summedModes: 4000,
+  /** modes in the mode table (up to the larger of 300 Hz and twice the Schroeder frequency) */
+  listedModes: 16000,
+} as const
+
+/** The engine sums modes up to 1.25 × 300 Hz for the seat's response (buildModalSystem's default). */
+export const MODAL_SUM_HZ = 1.25 * 300
+
 const metres = (what: string, max = 100) =>
   z.number({ error: `${what} must be a number of metres` }).finite(`${what} must be a finite number`).min(0, `${what} cannot be negative`).max(max, `${what} must be at most ${max} m`)
-const dimension = (what: string) => z.number({ error: `${what} must be a number of metres` }).finite().gt(0, `${what} must be more than 0 m`).max(100, `${what} must be at most 100 m`)
+const dimension = (what: string, max: number) => z.number({ error: `${what} must be a number of metres` }).finite().gt(0, `${what} must be more than 0 m`).max(max, `${what} must be at most ${max} m`)
 
 export const pointSchema = z.object({ x: metres('x'), y: metres('y'), z: metres('z') })
 export const speakerSchema = pointSchema.extend({
@@ -52,17 +82,17 @@ const surfacesSchema = z.object(Object.fromEntries(surfaces.map((s) => [s, z.str
 
 const roomObject = z.object({
   name: z.string().trim().min(1, 'give the room a name').max(120),
-  length: dimension('length'),
-  width: dimension('width'),
-  height: dimension('height'),
+  length: dimension('length', ROOM_LIMITS.length),
+  width: dimension('width', ROOM_LIMITS.width),
+  height: dimension('height', ROOM_LIMITS.height),
   celsius: z.number().finite().min(-10).max(45).default(20),
-  speakers: z.array(speakerSchema).min(2, 'add at least two speakers').max(16),
-  subwoofers: z.array(subwooferSchema).max(8).default([]),
-  seats: z.array(seatSchema).min(1, 'add the main seat').max(12),
-  openings: z.array(openingSchema).max(40).default([]),
+  speakers: z.array(speakerSchema).min(2, 'add at least two speakers').max(ROOM_LIMITS.speakers, `at most ${ROOM_LIMITS.speakers} speakers`),
+  subwoofers: z.array(subwooferSchema).max(ROOM_LIMITS.subwoofers, `at most ${ROOM_LIMITS.subwoofers} subwoofers`).default([]),
+  seats: z.array(seatSchema).min(1, 'add the main seat').max(ROOM_LIMITS.seats, `at most ${ROOM_LIMITS.seats} seats`),
+  openings: z.array(openingSchema).max(ROOM_LIMITS.openings, `at most ${ROOM_LIMITS.openings} openings`).default([]),
   surfaces: surfacesSchema,
-  furnishings: z.array(furnishingSchema).max(40).default([]),
-  treatments: z.array(treatmentSchema).max(60).default([]),
+  furnishings: z.array(furnishingSchema).max(ROOM_LIMITS.furnishings, `at most ${ROOM_LIMITS.furnishings} furnishings`).default([]),
+  treatments: z.array(treatmentSchema).max(ROOM_LIMITS.treatments, `at most ${ROOM_LIMITS.treatments} treatments`).default([]),
   notes: z.string().max(4000).default(''),
 })
 
@@ -99,6 +129,62 @@ export const roomSchema = roomObject.superRefine(checkGeometry)
 export type Room = z.output<typeof roomSchema>
 export type RoomInput = z.input<typeof roomSchema>
 export type Opening = z.infer<typeof openingSchema>
+
+export interface EngineLimitIssue {
+  /** which limit of ROOM_LIMITS */
+  limit: 'speakerSeatPairs' | 'summedModes' | 'listedModes'
+  /** the field path to point at ('' for the room as a whole) */
+  path: string
+  message: string
+  /** the room's figure and the limit */
+  value: number
+  max: number
+}
+
+const fmtCount = (n: number) => Math.round(n).toLocaleString('en-GB')
+
+/**
+ * The limits that depend on several fields, checked on a room the schema accepted (cheap: no mode is
+ * computed, the counts are the closed-form estimate, within 2 % of the exact counts for box rooms).
+ * Empty when the engine takes the room; the client and the server both use it.
+ * @see Kuttruff, Room Acoustics: N(f) ≈ 4πVf³/(3c³) + πSf²/(4c²) + Lf/(8c) (modeCountEstimate)
+ */
+export function engineLimitIssues(room: RoomDescription): EngineLimitIssue[] {
+  const issues: EngineLimitIssue[] = []
+  const pairs = room.speakers.length * room.seats.length
+  if (pairs > ROOM_LIMITS.speakerSeatPairs) {
+    issues.push({
+      limit: 'speakerSeatPairs', path: 'seats', value: pairs, max: ROOM_LIMITS.speakerSeatPairs,
+      message: `${room.speakers.length} speakers × ${room.seats.length} seats make ${pairs} speaker–seat pairs; Roomwright traces reflections for at most ${ROOM_LIMITS.speakerSeatPairs} pairs`,
+    })
+  }
+  const box = { length: room.length, width: room.width, height: room.height }
+  const celsius = room.celsius ?? 20
+  const summed = modeCountEstimate(box, MODAL_SUM_HZ, celsius)
+  if (summed > ROOM_LIMITS.summedModes) {
+    issues.push({
+      limit: 'summedModes', path: 'length', value: Math.round(summed), max: ROOM_LIMITS.summedModes,
+      message: `a room of ${fmtCount(room.length * room.width * room.height)} m³ has about ${fmtCount(summed)} room modes below ${MODAL_SUM_HZ} Hz; Roomwright analyses rooms with at most ${fmtCount(ROOM_LIMITS.summedModes)} (about 650 m³, e.g. 12 × 9.5 × 5.5 m)`,
+    })
+  }
+  let schroederHz: number | null = null
+  try {
+    schroederHz = bandReverberation({ room: box, surfaces: room.surfaces, openings: room.openings, furnishings: room.furnishings, treatments: room.treatments, celsius }).schroederHz
+  } catch {
+    // an impossible room (e.g. openings larger than their wall) is the engine's own 422 with its reason
+  }
+  if (schroederHz !== null && Number.isFinite(schroederHz)) {
+    const topHz = Math.max(300, 2 * schroederHz)
+    const listed = modeCountEstimate(box, topHz, celsius)
+    if (listed > ROOM_LIMITS.listedModes) {
+      issues.push({
+        limit: 'listedModes', path: 'surfaces', value: Math.round(listed), max: ROOM_LIMITS.listedModes,
+        message: `the mode table up to ${Math.round(topHz)} Hz (twice the Schroeder frequency) would hold about ${fmtCount(listed)} modes; Roomwright lists at most ${fmtCount(ROOM_LIMITS.listedModes)}: the surfaces are unusually hard — add the floor covering, furnishings and openings the room has`,
+      })
+    }
+  }
+  return issues
+}
 export type Treatment = z.infer<typeof treatmentSchema>
 
 export const roomSummarySchema = z.object({

@@ -1,6 +1,6 @@
 import { computed, onScopeDispose, ref, shallowRef, watch } from 'vue'
 import { computeRoomAnalysis, firstReflections, type RoomAnalysis, type Surface } from '../../shared/acoustics'
-import type { Room } from '../../shared/schemas/room'
+import { engineLimitIssues, type Room } from '../../shared/schemas/room'
 
 /** One speaker → seat pair's first-order reflection points, for the plan drawing. */
 export interface PlanReflectionPair {
@@ -27,6 +27,12 @@ export function useRoomPreview(source: () => Room | null, opts: { delayMs?: numb
   function compute(room: Room): void {
     const started = performance.now()
     try {
+      // the same limits the server answers 422 for: beyond them the engine would hold the page for seconds
+      const beyond = engineLimitIssues(room)
+      if (beyond.length) {
+        engineError.value = `This room is beyond what Roomwright analyses: ${beyond[0].message}`
+        return
+      }
       analysis.value = computeRoomAnalysis(room, { units: opts.units?.() ?? 'metric' })
       analysedRoom.value = room
       engineError.value = null

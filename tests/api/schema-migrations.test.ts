@@ -111,7 +111,7 @@ describe('models', () => {
     // Library tables: umzug's ledger and the socket.io adapter's payload table have no model.
     const library = new Set(['schema_migrations', 'socket_io_attachments'])
     const tables = new Set(cols.map((c) => c.table_name).filter((t) => !library.has(t)))
-    const byTable = new Map(Object.values(models()).map((m) => [m.getTableName() as string, m]))
+    const byTable = new Map((Object.values(models()) as unknown as typeof import("sequelize").Model[] as never as { getTableName(): string; getAttributes(): Record<string, { field: string }> }[]).map((m) => [m.getTableName(), m]))
     expect([...tables].sort()).toEqual([...byTable.keys()].sort())
     for (const [table, m] of byTable) {
       const have = new Set(cols.filter((c) => c.table_name === table).map((c) => c.column_name))

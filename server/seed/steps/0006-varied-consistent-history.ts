@@ -1,7 +1,7 @@
 import { QueryTypes } from 'sequelize'
 import { db } from '../../db/sequelize'
 import { analyseRoom, computeAndStoreTriage, triageScore } from '../../services/triage'
-import { planPredictions } from '../../services/plan-predictions'
+import { predictPlan } from '../../../shared/plan'
 import { ENGINE_VERSION } from '../../../shared/acoustics'
 import { roomSchema, type Room } from '../../../shared/schemas/room'
 import type { PlanBody } from '../../../shared/schemas/plan'
@@ -116,7 +116,7 @@ export async function seed(): Promise<void> {
     if (sent && !c.has_plan) {
       tpl.plan ??= (() => {
         const body = demoPlanBody(tpl.room, s.planNotes)
-        return { body, predictions: planPredictions(tpl.room, body) }
+        return { body, predictions: predictPlan(tpl.room, body) } // offline seed: in this thread
       })()
       const at = new Date(sent.created_at).getTime()
       const by = sent.actor_id ?? c.assignee_id
