@@ -59,6 +59,8 @@ export function authRouter(): Router {
     res.status(204).end()
   })
 
+  // The page's first question: 200 with the user or with null, never a 401 (a signed-out visitor is a normal case).
+  router.get('/session', (req, res) => res.json({ user: req.user ?? null }))
   router.get('/me', requireSignedIn, (req, res) => res.json(currentUser(req)))
   router.get('/preferences', requireSignedIn, async (req, res) => res.json(await getPreferences(currentUser(req).id)))
   router.patch('/preferences', requireSignedIn, validate(updatePreferencesSchema), async (req, res) =>

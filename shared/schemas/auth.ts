@@ -31,6 +31,10 @@ export const userSchema = z.object({
 })
 export type User = z.infer<typeof userSchema>
 
+/** GET /api/auth/session: who is signed in, answered 200 either way (null when nobody is), so a signed-out page has no failing request. */
+export const sessionSchema = z.object({ user: userSchema.nullable() })
+export type Session = z.infer<typeof sessionSchema>
+
 export const csrfSchema = z.object({ token: z.string() })
 
 /** A person's own settings: units for room dimensions, and whether non-essential e-mails are welcome. */

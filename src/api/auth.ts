@@ -1,16 +1,11 @@
 import {
-  passwordResetRequestedSchema, userSchema, type ChangePasswordInput, type LoginInput, type PasswordResetInput, type RegisterInput, type User,
+  passwordResetRequestedSchema, sessionSchema, userSchema, type ChangePasswordInput, type LoginInput, type PasswordResetInput, type RegisterInput, type User,
 } from '../../shared/schemas/auth'
 import { ApiRequestError, api, forgetCsrfToken } from './client'
 
-/** The signed-in user, or null when there is no session. */
+/** The signed-in user, or null when there is no session (GET /api/auth/session answers 200 either way). */
 export async function getMe(): Promise<User | null> {
-  try {
-    return await api.get('/api/auth/me', { schema: userSchema, notifyUnauthorized: false })
-  } catch (error) {
-    if (error instanceof ApiRequestError && error.status === 401) return null
-    throw error
-  }
+  return (await api.get('/api/auth/session', { schema: sessionSchema, notifyUnauthorized: false })).user
 }
 
 /** 401 'bad_credentials' for a wrong e-mail or password, 429 when rate-limited. */

@@ -83,6 +83,14 @@ describe('POST /api/auth/logout and GET /api/auth/me', () => {
     await c.post('/api/auth/logout').expect(204)
     await c.get('/api/auth/me').expect(401)
   })
+  it('session answers 200 either way: the user when signed in, null when not (a signed-out page has no failing request)', async () => {
+    expect((await request(testApp()).get('/api/auth/session').expect(200)).body).toEqual({ user: null })
+    const { c } = await signedIn('advisor')
+    const me = (await c.get('/api/auth/me').expect(200)).body
+    expect((await c.get('/api/auth/session').expect(200)).body).toEqual({ user: me })
+    await c.post('/api/auth/logout').expect(204)
+    expect((await c.get('/api/auth/session').expect(200)).body).toEqual({ user: null })
+  })
 })
 
 describe('staff accounts have one way in: an invitation', () => {

@@ -1,0 +1,74 @@
+import { afterAll, beforeAll, describe, expect, it } from 'vitest'
+import type { Browser, Page } from 'playwright-core'
+import { launchBrowser, signInAs, startProduct } from '../helpers/browser'
+import { makeUser } from '../helpers/api'
+import { createRoom } from '../../server/services/rooms'
+import { createCase, updateCase } from '../../server/services/cases'
+import { createPlan } from '../../server/services/plans'
+import { demoRooms } from '../../server/seed/rooms'
+import { demoPlanBody } from '../../server/seed/demo-plan'
+import { roomSchema } from '../../shared/schemas/room'
+import type { RunningServer } from '../../server/server'
+
+let server: RunningServer
+let browser: Browser
+beforeAll(async () => {
+  server = await startProduct()
+  browser = await launchBrowser()
+}, 120_000)
+afterAll(async () => {
+  await browser?.close()
+  await server?.close()
+})
+
+const PHONE = { width: 390, height: 844 }
+
+/** The page's width and, when it is too wide, the widest elements (to say what pushes it out). */
+async function width(page: Page): Promise<{ scrollWidth: number; culprits: string[] }> {
+  return page.evaluate((limit) => {
+    const culprits: string[] = []
+    // the outermost elements that stick out of a parent that itself fits: what pushes the page out
+    for (const el of Array.from(document.querySelectorAll<HTMLElement>('main *'))) {
+      const r = el.getBoundingClientRect()
+      const parent = el.parentElement?.getBoundingClientRect()
+      if (r.right > limit + 1 && parent && parent.right <= limit + 1 && culprits.length < 8) {
+        culprits.push(`${el.tagName.toLowerCase()}.${[...el.classList].slice(0, 3).join('.')}[${el.dataset.testid ?? ''}] right=${Math.round(r.right)}`)
+      }
+    }
+    return { scrollWidth: document.documentElement.scrollWidth, culprits }
+  }, PHONE.width)
+}
+
+describe('on a 390 px phone no page scrolls sideways', () => {
+  it('queue, workspace, plan editor, dashboard, room editor, case page and team fit the screen', async () => {
+    const listener = await makeUser('listener', 'Philippa Ahenkorah')
+    const advisor = await makeUser('advisor', 'Tobiah Marchetti')
+    const supervisor = await makeUser('supervisor', 'Gwendolyn Osei')
+    const room = await createRoom(listener, roomSchema.parse({ ...demoRooms.smallStudio, name: 'Spare bedroom studio' }))
+    const c = await createCase(listener, { roomId: room.id, title: 'Narrow screen case', description: 'The bass **booms** at the desk.' })
+    await updateCase(listener, c.id, { status: 'submitted', fromStatus: 'draft' })
+    await updateCase(advisor, c.id, { status: 'in_review', fromStatus: 'submitted', assigneeId: advisor.id })
+    await createPlan(advisor, c.id, demoPlanBody(room.room, 'Corner traps first.'))
+
+    const visits: Array<[typeof listener, string[]]> = [
+      [listener, [`/cases/${c.id}`, `/rooms/${room.id}`]],
+      [advisor, ['/queue', `/desk/cases/${c.id}`, `/desk/cases/${c.id}/plan`]],
+      [supervisor, ['/dashboard', '/team']],
+    ]
+    const wide: Record<string, unknown> = {}
+    for (const [who, paths] of visits) {
+      const context = await browser.newContext({ viewport: PHONE, isMobile: true, hasTouch: true })
+      const page = await signInAs(context, server.url, who.email, who.password)
+      await page.waitForURL((u) => !u.pathname.startsWith('/sign-in'))
+      for (const path of paths) {
+        await page.goto(`${server.url}${path}`, { waitUntil: 'networkidle' })
+        await page.locator('main').first().waitFor()
+        await page.waitForTimeout(1500) // charts and drawings lay out after the data arrives
+        const w = await width(page)
+        if (w.scrollWidth > PHONE.width) wide[path.replace(c.id, ':case').replace(room.id, ':room')] = w
+      }
+      await context.close()
+    }
+    expect(wide).toEqual({})
+  }, 300_000)
+})
