@@ -91,6 +91,7 @@ export const routeEntries: Record<string, Scenario[]> = {
   ],
   'POST /api/auth/password-reset': [sc(at(() => '/api/auth/password-reset', { note: 'a link that was never sent', body: () => ({ token: 'Q'.repeat(43), password: 'lantern-orchard-basalt-9' }) }), all(410))],
   'GET /api/auth/me': [sc(at(() => '/api/auth/me'), E(401, 200, 200, 200, 200))],
+  'GET /api/auth/session': [sc(at(() => '/api/auth/session'), all(200))],
   'GET /api/auth/preferences': [sc(at(() => '/api/auth/preferences'), E(401, 200, 200, 200, 200))],
   'PATCH /api/auth/preferences': [sc(at(() => '/api/auth/preferences', { body: () => ({ units: 'metric' }) }), E(401, 200, 200, 200, 200))],
 
