@@ -98,18 +98,18 @@ export async function queuePage(userId: string, query: QueueQuery): Promise<Queu
   const offset = (query.page - 1) * query.pageSize
   const sql = filters(userId, query)
   const cap = countCap(query)
+  if (query.sort === 'priority' && query.dir === 'desc' && !query.q) {
+    const { rows, n } = await byPriority(sql, offset, query.pageSize, cap)
+    return { rows, total: Math.min(n, cap), totalCapped: n > cap }
+  }
   const countBind = [...sql.bind, cap + 1]
   const counted = select<{ n: number }>(`SELECT count(*)::int AS n FROM (SELECT 1 FROM cases c WHERE ${sql.where} LIMIT $${countBind.length}) x`, countBind)
-  let rows: QueueRow[]
-  if (query.sort === 'priority' && query.dir === 'desc' && !query.q) rows = await byPriority(sql, offset, query.pageSize)
-  else {
-    const page = await bySort(sql, query, offset)
-    const details = page.length ? await summaries(page.map((r) => r.id)) : new Map<string, CaseSummary>()
-    rows = page.flatMap((r) => {
-      const s = details.get(r.id)
-      return s ? [{ ...s, priority: Math.round(r.priority * 10) / 10 }] : []
-    })
-  }
+  const page = await bySort(sql, query, offset)
+  const details = page.length ? await summaries(page.map((r) => r.id)) : new Map<string, CaseSummary>()
+  const rows = page.flatMap((r) => {
+    const s = details.get(r.id)
+    return s ? [{ ...s, priority: Math.round(r.priority * 10) / 10 }] : []
+  })
   const n = (await counted)[0].n
   return { rows, total: Math.min(n, cap), totalCapped: n > cap }
 }
@@ -139,22 +139,28 @@ const before = (x: { g: boolean; priority: number; id: string }, y: { g: boolean
  * middleware", PODS 2001) says when that is exact: no case outside the candidates can beat the stream
  * heads' bound. When it cannot be proved, m grows and the read repeats (rare: ties, deep pages).
  */
-export async function byPriority({ where, bind }: Sql, offset: number, size: number): Promise<QueueRow[]> {
+export async function byPriority({ where, bind }: Sql, offset: number, size: number, cap: number): Promise<{ rows: QueueRow[]; n: number }> {
   const want = offset + size
   // m: deep enough that one read is usually provably exact (a second round trip costs more than rows)
   for (let m = Math.max(8 * want, 200); ; m *= 4) {
-    const b = [...bind, m, size, offset]
-    const [lim, sizeP, offsetP] = [b.length - 2, b.length - 1, b.length].map((i) => `$${i}`)
+    // The limits are whole numbers from the validated query, written into the text: with them as
+    // parameters PostgreSQL never chose a generic plan and planned the statement again on every request
+    // (pg_prepared_statements: 0 generic, 66 custom plans; 3.6 ms planning for 1.5 ms execution).
+    // Beyond the first pages they stay parameters, so deep paging does not prepare a statement per page.
+    const b = [...bind]
+    const lit = (v: number) => (offset <= 4 * size ? String(Math.trunc(v)) : (b.push(v), `$${b.length}`))
+    const [lim, sizeP, offsetP, capP] = [lit(m), lit(size), lit(offset), lit(cap + 1)]
     const stream = (key: string, ws: string, order: string) =>
       `SELECT c.id, ${NEEDS} AS g, ${prioritySql} AS priority, ${key} AS key FROM cases c WHERE ${where} AND c.waiting_since ${ws} ORDER BY ${NEEDS} DESC, ${order} DESC LIMIT ${lim}`
     const head = (t: string) => `(SELECT count(*)::int FROM ${t}) AS n${t}, (SELECT g FROM ${t} ORDER BY g, key LIMIT 1) AS g${t}, (SELECT key FROM ${t} ORDER BY g, key LIMIT 1) AS k${t}`
-    // The merge, the stream heads and the page's columns in one statement: one round trip, few rows.
-    const rows = await select<SummaryRow & Heads & { priority: number | null; g: boolean | null }>(
+    // The merge, the stream heads, the capped count and the page's columns in one statement: one round trip, few rows.
+    const rows = await select<SummaryRow & Heads & { priority: number | null; g: boolean | null; total: number }>(
       `WITH a AS (${stream(`${SCORE} + 24`, 'IS NOT NULL', SCORE)}),
             b AS (${stream(UNCAPPED, 'IS NOT NULL', RANK)}),
             n AS (${stream(SCORE, 'IS NULL', SCORE)}),
             cand AS (SELECT id, g, priority FROM a UNION SELECT id, g, priority FROM b UNION SELECT id, g, priority FROM n),
-            heads AS (SELECT ${head('a')}, ${head('b')}, ${head('n')})
+            heads AS (SELECT ${head('a')}, ${head('b')}, ${head('n')},
+                             (SELECT count(*)::int FROM (SELECT 1 FROM cases c WHERE ${where} LIMIT ${capP}) x) AS total)
        SELECT h.*, t.g, t.priority, d.*
          FROM heads h
          LEFT JOIN LATERAL (SELECT id, g, priority FROM cand ORDER BY g DESC, priority DESC, id LIMIT ${sizeP} OFFSET ${offsetP}) t ON true
@@ -171,7 +177,7 @@ export async function byPriority({ where, bind }: Sql, offset: number, size: num
       n: { count: h.nn, last: h.nn ? { g: h.gn!, key: Number(h.kn) } : undefined },
     }
     if (proved(heads, m, offset + page.length, want, last ? { g: last.g!, priority: Number(last.priority) } : undefined)) {
-      return page.map((r) => ({ ...toSummary(r), priority: Math.round(Number(r.priority) * 10) / 10 }))
+      return { rows: page.map((r) => ({ ...toSummary(r), priority: Math.round(Number(r.priority) * 10) / 10 })), n: h.total }
     }
   }
 }
