@@ -12,6 +12,7 @@ import { rejectNulCharacters } from './middleware/validate'
 import { errorHandler, notFoundHandler } from './middleware/errors'
 import { apiRouter } from './routes'
 import { closeAnalysisPool } from './analysis/pool'
+import { closeQueueCache } from './services/queue'
 
 export interface BuiltApp {
   app: express.Express
@@ -46,9 +47,10 @@ export function createApp(opts: { clientDir?: string | false } = {}): BuiltApp {
 
   const sessionPool = new pg.Pool({ connectionString: cfg.DATABASE_URL, max: 8, connectionTimeoutMillis: 3000 })
   sessionPool.on('error', () => {})
+  const store = new SessionStore({ pool: sessionPool, tableName: 'session', createTableIfMissing: false, pruneSessionInterval: 15 * 60 })
   const sessionMiddleware = session({
     name: 'rw.sid',
-    store: new SessionStore({ pool: sessionPool, tableName: 'session', createTableIfMissing: false, pruneSessionInterval: 15 * 60 }),
+    store,
     secret: cfg.SESSION_SECRET,
     // rolling expiry (14 days after the last request); the store writes it at most every 10 minutes
     resave: false,
@@ -81,5 +83,5 @@ export function createApp(opts: { clientDir?: string | false } = {}): BuiltApp {
   app.use(errorHandler)
 
   // the worker pool runs the room engine for requests too (preview, save, submit): its threads end with the app
-  return { app, sessionMiddleware, close: async () => { await closeAnalysisPool(); await sessionPool.end() } }
+  return { app, sessionMiddleware, close: async () => { await closeAnalysisPool(); await store.closeCache(); await closeQueueCache(); await sessionPool.end() } }
 }

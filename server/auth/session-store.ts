@@ -2,6 +2,7 @@ import session from 'express-session'
 import connectPgSimple from 'connect-pg-simple'
 import type pg from 'pg'
 import type { User } from '../../shared/schemas/auth'
+import { feedLive, subscribeChanges } from '../db/change-feed'
 
 const PgStore = connectPgSimple(session)
 /** The session and its user in one statement (the session's user_id column is generated from its JSON). */
@@ -13,6 +14,16 @@ type Callback<T = unknown> = (err: unknown, value?: T) => void
 
 /** A rolling session's expiry is written again only once it would move by this much (touching costs a write per request). */
 export const TOUCH_EVERY_MS = 10 * 60 * 1000
+
+/**
+ * How long this node may answer from its memory for a signed-in session and its user: the bound if a
+ * change notification were ever lost while the feed still looked up (changes normally drop the entry at
+ * once, on every node, through the change feed).
+ */
+export const SESSION_CACHE_MS = 10_000
+const SESSION_CACHE_MAX = 20_000
+
+interface Cached { json: string; expireMs: number; user: User | null; userId: string; at: number }
 
 // The signed-in user read in the same statement as the session, keyed by the session's `passport` object
 // (express-session keeps that object when it builds req.session, so the deserializer finds it again).
@@ -36,6 +47,13 @@ interface Row {
  * most every TOUCH_EVERY_MS instead of on every request.
  */
 export class SessionStore extends PgStore {
+  // sid → the session and its user as last read from PostgreSQL (signed-in sessions only)
+  private cache = new Map<string, Cached>()
+  private sidsOf = new Map<string, Set<string>>()
+  // bumped by every invalidation: a read that started before one is not cached (it may be stale)
+  private generation = 0
+  private unsubscribe: () => Promise<void>
+
   // sid → the expiry last read or written by this node (bounded: cleared when it grows large)
   private known = new Map<string, number>()
 
@@ -49,9 +67,82 @@ export class SessionStore extends PgStore {
   constructor(options: ConstructorParameters<typeof PgStore>[0] & { pool: pg.Pool }) {
     super(options)
     this.pool = options.pool
+    this.unsubscribe = subscribeChanges({
+      change: (payload) => {
+        if (payload === 'u:*') this.forgetAll()
+        else if (payload.startsWith('u:')) this.forgetUser(payload.slice(2))
+      },
+      reset: () => this.forgetAll(),
+    })
+  }
+
+  /** Stops listening for changes (the app's close). */
+  async closeCache(): Promise<void> {
+    this.forgetAll()
+    await this.unsubscribe()
+  }
+
+  private forget(sid: string): void {
+    this.generation++
+    const c = this.cache.get(sid)
+    if (!c) return
+    this.cache.delete(sid)
+    const sids = this.sidsOf.get(c.userId)
+    sids?.delete(sid)
+    if (sids && !sids.size) this.sidsOf.delete(c.userId)
+  }
+
+  private forgetUser(userId: string): void {
+    this.generation++
+    for (const sid of this.sidsOf.get(userId) ?? []) this.cache.delete(sid)
+    this.sidsOf.delete(userId)
+  }
+
+  private forgetAll(): void {
+    this.generation++
+    this.cache.clear()
+    this.sidsOf.clear()
+  }
+
+  private keep(sid: string, c: Cached): void {
+    if (this.cache.size >= SESSION_CACHE_MAX) this.forgetAll()
+    this.cache.set(sid, c)
+    let sids = this.sidsOf.get(c.userId)
+    if (!sids) this.sidsOf.set(c.userId, (sids = new Set()))
+    sids.add(sid)
+  }
+
+  /** The session from memory when this node may answer from it, else undefined. */
+  private fromMemory(sid: string): session.SessionData | undefined {
+    const c = this.cache.get(sid)
+    if (!c) return undefined
+    const now = Date.now()
+    if (!feedLive() || now - c.at > SESSION_CACHE_MS || c.expireMs < now) {
+      this.forget(sid)
+      return undefined
+    }
+    // a fresh object per request (passport and express-session change it in place)
+    const sess = JSON.parse(c.json) as Row['sess']
+    if (sess.passport && typeof sess.passport === 'object') usersOfSessions.set(sess.passport, c.user)
+    return sess
   }
 
   override get(sid: string, fn: Callback<session.SessionData | null>): void {
+    if (this.cache.has(sid)) {
+      // Looked at after the I/O callbacks of this turn of the event loop, so a change notification that
+      // arrived together with this request is applied first.
+      setImmediate(() => {
+        const sess = this.fromMemory(sid)
+        if (sess) return fn(null, sess)
+        this.read(sid, fn)
+      })
+      return
+    }
+    this.read(sid, fn)
+  }
+
+  private read(sid: string, fn: Callback<session.SessionData | null>): void {
+    const generation = this.generation
     // a named prepared statement: planned once per connection, not on every request
     this.pool.query<Row>({ name: 'rw_session_get', text: SESSION_GET, values: [sid, Math.ceil(Date.now() / 1000)] }).then(
       ({ rows: [row] }) => {
@@ -62,9 +153,13 @@ export class SessionStore extends PgStore {
         } catch {
           return this.destroy(sid, (e) => fn(e ?? null, null))
         }
-        this.remember(sid, Number(row.expire_ms))
+        const expireMs = Number(row.expire_ms)
+        this.remember(sid, expireMs)
         if (sess.passport && typeof sess.passport === 'object' && sess.passport.user) {
-          usersOfSessions.set(sess.passport, row.id && row.active ? { id: row.id, email: row.email, name: row.name, role: row.role } : null)
+          const user = row.id && row.active ? { id: row.id, email: row.email, name: row.name, role: row.role } : null
+          // only what no change overtook, and only while changes can reach this node
+          if (user && feedLive() && generation === this.generation) this.keep(sid, { json: JSON.stringify(sess), expireMs, user, userId: user.id, at: Date.now() })
+          usersOfSessions.set(sess.passport, user)
         }
         fn(null, sess)
       },
@@ -73,7 +168,9 @@ export class SessionStore extends PgStore {
   }
 
   override set(sid: string, sess: session.SessionData, fn?: (err?: unknown) => void): void {
+    this.forget(sid)
     super.set(sid, sess, (err?: unknown) => {
+      this.forget(sid)
       if (!err && sess.cookie?.expires) this.remember(sid, new Date(sess.cookie.expires).getTime())
       fn?.(err)
     })
@@ -81,7 +178,11 @@ export class SessionStore extends PgStore {
 
   override destroy(sid: string, fn?: (err?: unknown) => void): void {
     this.known.delete(sid)
-    super.destroy(sid, fn)
+    this.forget(sid)
+    super.destroy(sid, (err?: unknown) => {
+      this.forget(sid)
+      fn?.(err)
+    })
   }
 
   override touch(sid: string, sess: session.SessionData, fn?: (err?: unknown) => void): void {
@@ -89,7 +190,11 @@ export class SessionStore extends PgStore {
     const last = this.known.get(sid)
     if (Number.isFinite(next) && last !== undefined && next - last < TOUCH_EVERY_MS) return fn?.()
     super.touch(sid, sess, (err?: unknown) => {
-      if (!err && Number.isFinite(next)) this.remember(sid, next)
+      if (!err && Number.isFinite(next)) {
+        this.remember(sid, next)
+        const c = this.cache.get(sid)
+        if (c) c.expireMs = next
+      }
       fn?.(err)
     })
   }

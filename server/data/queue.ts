@@ -3,6 +3,7 @@ import { db } from '../db/sequelize'
 import type { QueueQuery } from '../../shared/schemas/queue'
 import type { CaseStatus, CaseSummary } from '../../shared/schemas/case'
 import { waitingOnTeam } from '../../shared/case-workflow'
+import { POINTS_PER_HOUR, WAIT_CAP_HOURS } from '../../shared/queue-priority'
 
 // Hand-written SQL, measured faster (bench/queue.ts, README figures): the priority merge below needs
 // expression-index scans with LIMIT per stream, which the ORM cannot say, and named prepared statements
@@ -20,13 +21,19 @@ const SCORE = '(coalesce(c.score, 0))'
 /** Priority before the cap, less the part that only depends on the clock: its order never changes. */
 const RANK = `(coalesce(c.score, 0) - date_part('epoch', c.waiting_since - timestamptz 'epoch') / 14400)`
 if (waitingOnTeam.join() !== 'submitted,in_review') throw new Error('queue.ts NEEDS and migration 0060 assume waitingOnTeam = submitted, in_review')
+// RANK's divisor (3600 / POINTS_PER_HOUR) is in the indexes of migration 0060 and CAP_POINTS in the merge's bound.
+if (POINTS_PER_HOUR !== 1 / 4) throw new Error('queue.ts RANK and migration 0060 assume a quarter point per hour')
+const CAP_POINTS = WAIT_CAP_HOURS * POINTS_PER_HOUR
 
 /** Hours the case has waited for us (0 when it is not waiting). */
 const HOURS = `coalesce(date_part('epoch', now() - c.waiting_since) / 3600, 0)`
-/** Queue priority: the triage score plus a quarter point per hour waiting for us, capped at four days (see services/triage.ts). */
-export const prioritySql = `(${SCORE} + least(${HOURS}, 96) / 4)`
-/** The same without the cap: with it, priority = least(score + 24, UNCAPPED) for a waiting case. */
-const UNCAPPED = `(${SCORE} + ${HOURS} / 4)`
+/**
+ * Queue priority: the triage score plus a quarter point per hour waiting for us, capped at four days;
+ * the SQL twin of `queuePriority()` in shared/queue-priority.ts (tests/api/queue-priority.test.ts).
+ */
+export const prioritySql = `(${SCORE} + least(${HOURS}, ${WAIT_CAP_HOURS}) / ${1 / POINTS_PER_HOUR})`
+/** The same without the cap: with it, priority = least(score + CAP_POINTS, UNCAPPED) for a waiting case. */
+const UNCAPPED = `(${SCORE} + ${HOURS} / ${1 / POINTS_PER_HOUR})`
 
 const sortSql: Record<QueueQuery['sort'], string> = {
   priority: prioritySql,
@@ -77,9 +84,14 @@ interface Pool { getConnection(o: { type: string }): Promise<PgConnection>; rele
  * A SELECT as a named prepared statement on a connection of Sequelize's pool: each connection plans a
  * statement once (PostgreSQL switches to a generic plan when it is no worse) instead of on every request.
  */
+const statementNames = new Map<string, string>()
 async function select<T>(sql: string, bind: unknown[]): Promise<T[]> {
   const pool = db().connectionManager as unknown as Pool
-  const name = `rw_queue_${createHash('sha1').update(sql).digest('hex').slice(0, 24)}`
+  let name = statementNames.get(sql)
+  if (!name) {
+    if (statementNames.size > 1000) statementNames.clear()
+    statementNames.set(sql, (name = `rw_queue_${createHash('sha1').update(sql).digest('hex').slice(0, 24)}`))
+  }
   const connection = await pool.getConnection({ type: 'SELECT' })
   try {
     return (await connection.query({ name, text: sql, values: bind })).rows as T[]
@@ -155,7 +167,7 @@ export async function byPriority({ where, bind }: Sql, offset: number, size: num
     const head = (t: string) => `(SELECT count(*)::int FROM ${t}) AS n${t}, (SELECT g FROM ${t} ORDER BY g, key LIMIT 1) AS g${t}, (SELECT key FROM ${t} ORDER BY g, key LIMIT 1) AS k${t}`
     // The merge, the stream heads, the capped count and the page's columns in one statement: one round trip, few rows.
     const rows = await select<SummaryRow & Heads & { priority: number | null; g: boolean | null; total: number }>(
-      `WITH a AS (${stream(`${SCORE} + 24`, 'IS NOT NULL', SCORE)}),
+      `WITH a AS (${stream(`${SCORE} + ${CAP_POINTS}`, 'IS NOT NULL', SCORE)}),
             b AS (${stream(UNCAPPED, 'IS NOT NULL', RANK)}),
             n AS (${stream(SCORE, 'IS NULL', SCORE)}),
             cand AS (SELECT id, g, priority FROM a UNION SELECT id, g, priority FROM b UNION SELECT id, g, priority FROM n),
