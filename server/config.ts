@@ -90,6 +90,11 @@ const schema = z.object({
   SIGN_IN_WINDOW_MINUTES: whole('SIGN_IN_WINDOW_MINUTES', 15, 1, 24 * 60),
   /** Longest one SQL statement may run, ms: requests fail fast instead of piling up. Benchmarks raise it for bulk loads. */
   DB_STATEMENT_TIMEOUT_MS: whole('DB_STATEMENT_TIMEOUT_MS', 15_000, 1000, 3_600_000),
+  /**
+   * The longest a node answers a signed-in session from its memory (auth/session-store.ts); changes drop
+   * it at once through the change feed, so this only bounds a lost notification. 0 turns the cache off.
+   */
+  SESSION_CACHE_SECONDS: whole('SESSION_CACHE_SECONDS', 10, 0, 3600),
 })
 
 export type Config = z.infer<typeof schema>

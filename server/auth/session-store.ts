@@ -2,7 +2,8 @@ import session from 'express-session'
 import connectPgSimple from 'connect-pg-simple'
 import type pg from 'pg'
 import type { User } from '../../shared/schemas/auth'
-import { feedLive, subscribeChanges } from '../db/change-feed'
+import { caughtUp, feedLive, subscribeChanges } from '../db/change-feed'
+import { config } from '../config'
 
 const PgStore = connectPgSimple(session)
 /** The session and its user in one statement (the session's user_id column is generated from its JSON). */
@@ -20,7 +21,7 @@ export const TOUCH_EVERY_MS = 10 * 60 * 1000
  * change notification were ever lost while the feed still looked up (changes normally drop the entry at
  * once, on every node, through the change feed).
  */
-export const SESSION_CACHE_MS = 10_000
+export const sessionCacheMs = () => config().SESSION_CACHE_SECONDS * 1000
 const SESSION_CACHE_MAX = 20_000
 
 interface Cached { json: string; expireMs: number; user: User | null; userId: string; at: number }
@@ -69,8 +70,7 @@ export class SessionStore extends PgStore {
     this.pool = options.pool
     this.unsubscribe = subscribeChanges({
       change: (payload) => {
-        if (payload === 'u:*') this.forgetAll()
-        else if (payload.startsWith('u:')) this.forgetUser(payload.slice(2))
+        if (payload.startsWith('u:')) this.forgetUser(payload.slice(2))
       },
       reset: () => this.forgetAll(),
     })
@@ -117,7 +117,7 @@ export class SessionStore extends PgStore {
     const c = this.cache.get(sid)
     if (!c) return undefined
     const now = Date.now()
-    if (!feedLive() || now - c.at > SESSION_CACHE_MS || c.expireMs < now) {
+    if (!feedLive() || now - c.at > sessionCacheMs() || c.expireMs < now) {
       this.forget(sid)
       return undefined
     }
@@ -129,13 +129,12 @@ export class SessionStore extends PgStore {
 
   override get(sid: string, fn: Callback<session.SessionData | null>): void {
     if (this.cache.has(sid)) {
-      // Looked at after the I/O callbacks of this turn of the event loop, so a change notification that
-      // arrived together with this request is applied first.
-      setImmediate(() => {
-        const sess = this.fromMemory(sid)
+      // every change committed before this request is applied first (db/change-feed.ts)
+      caughtUp().then((ok) => {
+        const sess = ok ? this.fromMemory(sid) : undefined
         if (sess) return fn(null, sess)
         this.read(sid, fn)
-      })
+      }, () => this.read(sid, fn))
       return
     }
     this.read(sid, fn)
@@ -158,7 +157,7 @@ export class SessionStore extends PgStore {
         if (sess.passport && typeof sess.passport === 'object' && sess.passport.user) {
           const user = row.id && row.active ? { id: row.id, email: row.email, name: row.name, role: row.role } : null
           // only what no change overtook, and only while changes can reach this node
-          if (user && feedLive() && generation === this.generation) this.keep(sid, { json: JSON.stringify(sess), expireMs, user, userId: user.id, at: Date.now() })
+          if (user && sessionCacheMs() > 0 && feedLive() && generation === this.generation) this.keep(sid, { json: JSON.stringify(sess), expireMs, user, userId: user.id, at: Date.now() })
           usersOfSessions.set(sess.passport, user)
         }
         fn(null, sess)

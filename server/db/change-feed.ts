@@ -1,5 +1,4 @@
 import pg from 'pg'
-import type { Sequelize, Transaction } from 'sequelize'
 import { config } from '../config'
 import { log } from '../lib/log'
 
@@ -11,9 +10,11 @@ import { log } from '../lib/log'
  * The in-process caches built on it (auth/session-store.ts, data/queue-cache.ts) serve from memory only
  * while the feed is `live()`: when the connection drops they are emptied and stay off until LISTEN is
  * back, because notifications sent meanwhile are lost (PostgreSQL keeps none for an absent listener).
- * Writes made through this process's Sequelize instance are also announced here at once, without
- * waiting for PostgreSQL's notification (`watchLocalWrites`), so a request that follows a change on the
- * same node never sees the cache from before it; `u:*` then stands for "some account or session".
+ * Before answering from memory a cache awaits `caughtUp()`: a round trip on the LISTEN connection, after
+ * which every notification committed before it was asked for has been handled (PostgreSQL delivers a
+ * signalled listener's pending notifications before it reports ready for the next query). So a request
+ * that follows a change — on this node or any other — never gets the state from before it. Requests
+ * arriving together share one round trip.
  */
 export const CHANGES_CHANNEL = 'rw_changes'
 
@@ -37,6 +38,47 @@ function resetAll(): void {
   for (const s of subscribers) s.reset()
 }
 
+let syncing = false
+let waiting: ((ok: boolean) => void)[] = []
+
+function flush(c: pg.Client): void {
+  const batch = waiting
+  waiting = []
+  syncing = true
+  c.query('SELECT 1').then(
+    () => {
+      syncing = false
+      const ok = up && client === c
+      for (const r of batch) r(ok)
+      if (waiting.length) ok ? flush(c) : settle(false)
+    },
+    () => {
+      syncing = false
+      for (const r of batch) r(false)
+      settle(false)
+    },
+  )
+}
+
+function settle(ok: boolean): void {
+  const batch = waiting
+  waiting = []
+  for (const r of batch) r(ok)
+}
+
+/**
+ * Resolves true once every change notification committed before this call has been handled, false
+ * when the feed is down (the caller then reads the database instead of its memory).
+ */
+export function caughtUp(): Promise<boolean> {
+  const c = client
+  if (!up || !c) return Promise.resolve(false)
+  return new Promise((resolve) => {
+    waiting.push(resolve)
+    if (!syncing) flush(c)
+  })
+}
+
 async function connect(): Promise<void> {
   if (client || !subscribers.size) return
   const c = new pg.Client({ connectionString: config().DATABASE_URL, connectionTimeoutMillis: 3000 })
@@ -47,6 +89,7 @@ async function connect(): Promise<void> {
     if (up) log.warn('change feed lost; caches off until it is back', { err: String(why) })
     up = false
     resetAll()
+    settle(false)
     c.end().catch(() => {})
     schedule()
   }
@@ -91,48 +134,8 @@ export function subscribeChanges(s: ChangeSubscriber): () => Promise<void> {
     const c = client
     client = undefined
     up = false
+    settle(false)
     await c?.end().catch(() => {})
   }
 }
 
-/** Hands a change made in this process to the subscribers at once (its notification follows). */
-export function localChange(payload: string): void {
-  for (const s of subscribers) s.change(payload)
-}
-
-const READ = /^\s*(select|show|explain)\b/i
-const ACCOUNTS = /\b"?(users|session)"?\b/i
-const QUEUE = /\b"?(cases|messages|users|rooms|room_revisions)"?\b/i
-const END = /^\s*(commit|rollback)\b/i
-const pending = new WeakMap<Transaction, Set<string>>()
-
-/**
- * Announces the writes of a Sequelize instance to this process's caches as soon as they are made and
- * again when their transaction commits (a read between the two may have cached the state before it).
- * Judged from the statement's text: conservative, a false alarm only costs a cache miss.
- */
-export function watchLocalWrites(sequelize: Sequelize): void {
-  sequelize.addHook('afterQuery', (options, query) => {
-    const sql = (query as unknown as { sql?: unknown } | undefined)?.sql
-    if (typeof sql !== 'string' || READ.test(sql)) return
-    let t = options?.transaction ?? undefined
-    // a savepoint's writes count at the outermost transaction's COMMIT
-    while (t && (t as Transaction & { parent?: Transaction }).parent) t = (t as Transaction & { parent?: Transaction }).parent
-    if (t && END.test(sql)) {
-      const kinds = pending.get(t)
-      pending.delete(t)
-      for (const k of kinds ?? []) localChange(k)
-      return
-    }
-    const kinds: string[] = []
-    if (ACCOUNTS.test(sql)) kinds.push('u:*')
-    if (QUEUE.test(sql)) kinds.push('q')
-    if (!kinds.length) return
-    for (const k of kinds) localChange(k)
-    if (t) {
-      let set = pending.get(t)
-      if (!set) pending.set(t, (set = new Set()))
-      for (const k of kinds) set.add(k)
-    }
-  })
-}

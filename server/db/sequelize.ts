@@ -1,6 +1,5 @@
 import { Sequelize } from 'sequelize'
 import { config } from '../config'
-import { watchLocalWrites } from './change-feed'
 
 let instance: Sequelize | undefined
 
@@ -13,8 +12,6 @@ export function db(): Sequelize {
     dialectOptions: { connectionTimeoutMillis: 3_000, statement_timeout: config().DB_STATEMENT_TIMEOUT_MS },
     define: { underscored: true },
   })
-  // this node's caches hear of its own writes at once (server/db/change-feed.ts)
-  watchLocalWrites(instance)
   return instance
 }
 

@@ -2,7 +2,7 @@ import { queuePage, type QueuePage } from '../data/queue'
 import { queueQuerySchema, type QueueQuery } from '../../shared/schemas/queue'
 import { AppError } from '../errors'
 import { zodFields } from '../middleware/validate'
-import { feedLive, subscribeChanges } from '../db/change-feed'
+import { caughtUp, feedLive, subscribeChanges } from '../db/change-feed'
 import type { User } from '../../shared/schemas/auth'
 
 /**
@@ -50,19 +50,24 @@ const keyOf = (user: User, q: QueueQuery) => JSON.stringify([q.scope === 'mine' 
 async function cachedPage(user: User, query: QueueQuery): Promise<QueuePage> {
   subscribe()
   const key = keyOf(user, query)
-  if (pages.has(key)) {
-    // Looked at after this turn's I/O callbacks, so a change notification that came in with this request is applied first.
-    await new Promise<void>((r) => setImmediate(r))
-    const hit = pages.get(key)
-    if (hit && feedLive() && Date.now() - hit.at <= QUEUE_CACHE_MS) {
-      stats.hits++
-      return hit.page
+  if (pages.has(key) || computing.has(key)) {
+    // every change committed before this request is applied first (db/change-feed.ts): a page cached,
+    // or being computed, before such a change is gone by then
+    if (await caughtUp()) {
+      const hit = pages.get(key)
+      if (hit && Date.now() - hit.at <= QUEUE_CACHE_MS) {
+        stats.hits++
+        return hit.page
+      }
+      const running = computing.get(key)
+      if (running) {
+        stats.hits++
+        return running
+      }
     }
     pages.delete(key)
   }
   stats.misses++
-  const running = computing.get(key)
-  if (running) return running
   const g = generation
   const at = Date.now()
   const p = queuePage(user.id, query).finally(() => {
