@@ -23,7 +23,8 @@ export function casesRouter(): Router {
       const rows = await listMyCases(user)
       return res.json({ rows, total: rows.length })
     }
-    res.json(await teamQueue(user, req.query))
+    // the page's JSON text comes made with the (cached) page: the same bytes res.json would send
+    res.type('json').send((await teamQueue(user, req.query)).json)
   })
   router.post('/', requireRole('listener'), validate(createCaseSchema), async (req, res) => res.status(201).json(await createCase(currentUser(req), res.locals.body)))
   router.get('/:id', requireSignedIn, id, async (req, res) => res.json(await readableCase(currentUser(req), String(req.params.id))))

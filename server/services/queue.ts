@@ -15,9 +15,11 @@ import type { User } from '../../shared/schemas/auth'
 export const QUEUE_CACHE_MS = 2_000
 const QUEUE_CACHE_MAX = 500
 
-interface Entry { at: number; page: QueuePage }
+/** A page and its JSON text, made once per computed page (serialising 25 rows cost more than the rest of a cached answer). */
+export interface CachedPage { page: QueuePage; json: string }
+interface Entry { at: number; page: CachedPage }
 const pages = new Map<string, Entry>()
-const computing = new Map<string, Promise<QueuePage>>()
+const computing = new Map<string, Promise<CachedPage>>()
 let generation = 0
 const stats = { hits: 0, misses: 0 }
 let unsubscribe: (() => Promise<void>) | undefined
@@ -47,7 +49,7 @@ export const queueCacheStats = () => ({ ...stats })
 /** The cache key: the whole validated query, and the user only where the view depends on who asks ("Mine"). */
 const keyOf = (user: User, q: QueueQuery) => JSON.stringify([q.scope === 'mine' ? user.id : '', q.scope, q.status ?? null, q.flag ?? null, q.waitingHours ?? null, q.q ?? null, q.sort, q.dir, q.page, q.pageSize])
 
-async function cachedPage(user: User, query: QueueQuery): Promise<QueuePage> {
+async function cachedPage(user: User, query: QueueQuery): Promise<CachedPage> {
   subscribe()
   const key = keyOf(user, query)
   if (pages.has(key) || computing.has(key)) {
@@ -70,7 +72,7 @@ async function cachedPage(user: User, query: QueueQuery): Promise<QueuePage> {
   stats.misses++
   const g = generation
   const at = Date.now()
-  const p = queuePage(user.id, query).finally(() => {
+  const p = queuePage(user.id, query).then((page) => ({ page, json: JSON.stringify(page) })).finally(() => {
     if (computing.get(key) === p) computing.delete(key)
   })
   computing.set(key, p)
@@ -88,7 +90,7 @@ async function cachedPage(user: User, query: QueueQuery): Promise<QueuePage> {
  * cover open work, what needs an answer first; a status filter reaches closed cases. Pages are answered
  * from a short-lived, change-invalidated cache (QUEUE_CACHE_MS).
  */
-export async function teamQueue(user: User, rawQuery: unknown): Promise<QueuePage> {
+export async function teamQueue(user: User, rawQuery: unknown): Promise<CachedPage> {
   const parsed = queueQuerySchema.safeParse(rawQuery)
   if (!parsed.success) throw new AppError('Some filters need another look', { status: 400, code: 'invalid', fields: zodFields(parsed.error.issues) })
   return cachedPage(user, parsed.data)
