@@ -1,4 +1,5 @@
 import { readFileSync } from 'node:fs'
+import { roleLabels } from '../../shared/words/people'
 import { fileURLToPath } from 'node:url'
 import { JSDOM } from 'jsdom'
 import createDOMPurify, { type DOMPurify } from 'dompurify'
@@ -121,7 +122,6 @@ function templateFile(file: string): string {
 
 // ---------------------------------------------------------------- per-kind values
 
-const ROLE_LABEL = { listener: 'listener', advisor: 'advisor', supervisor: 'supervisor' } as const
 /** E-mails are read away from the screen, in no known zone: times are written in UTC and say so. */
 const utcText = (d: Date) => formatDateTime(d, { timeZone: 'UTC', withZone: true })
 
@@ -169,7 +169,7 @@ function kindValues(kind: EmailKind, v: Record<string, unknown>): { values: Reco
         values: {
           ...base,
           inviterName: s('inviterName'),
-          roleLabel: ROLE_LABEL[v.role as keyof typeof ROLE_LABEL],
+          roleLabel: roleLabels[v.role as keyof typeof roleLabels].toLowerCase(),
           setPasswordUrl: s('setPasswordUrl'),
           expiresText: utcText(expires),
         },

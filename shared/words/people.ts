@@ -54,3 +54,10 @@ export const roleWithArticle: Record<'listener' | 'advisor' | 'supervisor', stri
   advisor: 'an advisor',
   supervisor: 'a supervisor',
 }
+
+/** The name of each role, as a chip or a column shows it. */
+export const roleLabels: Record<'listener' | 'advisor' | 'supervisor', string> = {
+  listener: 'Listener',
+  advisor: 'Advisor',
+  supervisor: 'Supervisor',
+}
