@@ -81,6 +81,15 @@ describe('a signed-out visitor', () => {
   }, 120_000)
 })
 
+/** A fresh browser context in `timezoneId`, signed in as `who`, on `path` of the product. */
+async function openAs(who: { email: string; password: string }, path: string, timezoneId?: string): Promise<{ page: Page; close: () => Promise<void> }> {
+  const context = await browser.newContext({ viewport: { width: 1440, height: 900 }, timezoneId })
+  const page = await signInAs(context, server.url, who.email, who.password)
+  await page.waitForURL((u) => !u.pathname.startsWith('/sign-in'))
+  await page.goto(`${server.url}${path}`, { waitUntil: 'networkidle' })
+  return { page, close: () => context.close() }
+}
+
 describe('one source of words: the same flag and status read the same on every page', () => {
   it('queue, workspace and dashboard name the flag and the status alike; the listener reads "What you hear"; dates are in the browser\'s zone', async () => {
     const listener = await makeUser('listener', 'Wendeline Quillfeather')
@@ -95,10 +104,7 @@ describe('one source of words: the same flag and status read the same on every p
     const timezoneId = 'Pacific/Auckland'
 
     // the advisor's workspace: the flags by name, the status chip, the history's times in the browser's zone
-    const ws = await browser.newContext({ viewport: { width: 1440, height: 900 }, timezoneId })
-    const wsPage = await signInAs(ws, server.url, advisor.email, advisor.password)
-    await wsPage.waitForURL((u) => !u.pathname.startsWith('/sign-in'))
-    await wsPage.goto(`${server.url}/desk/cases/${c.id}`, { waitUntil: 'networkidle' })
+    const { page: wsPage, close: closeWs } = await openAs(advisor, `/desk/cases/${c.id}`, timezoneId)
     await wsPage.getByTestId('flag-item').first().waitFor()
     const flags = await wsPage.getByTestId('flag-item').evaluateAll((items) =>
       items.map((i) => ({ id: i.getAttribute('data-flag')!, name: i.querySelector('[data-testid=flag-name]')?.textContent?.trim() ?? '' })),
@@ -115,44 +121,36 @@ describe('one source of words: the same flag and status read the same on every p
       expect(t.text).toBe(formatDateTime(t.at, { timeZone: timezoneId }))
       expect(t.text).not.toBe(formatDateTime(t.at, { timeZone: 'UTC' }))
     }
-    await ws.close()
+    await closeWs()
 
     // the queue: the same status chip, and the same flag name in the row's flag summary
-    const q = await browser.newContext({ viewport: { width: 1440, height: 900 }, timezoneId })
-    const qPage = await signInAs(q, server.url, advisor.email, advisor.password)
-    await qPage.waitForURL((u) => !u.pathname.startsWith('/sign-in'))
-    await qPage.goto(`${server.url}/queue?scope=all&q=Quillfeather`, { waitUntil: 'networkidle' })
+    const { page: qPage, close: closeQ } = await openAs(advisor, '/queue?scope=all&q=Quillfeather', timezoneId)
     const row = qPage.locator(`[data-testid=queue-row][data-case-id="${c.id}"]`)
     await row.waitFor()
     expect((await row.getByTestId('case-status').textContent())?.trim()).toBe(inReview)
     await row.getByTestId('queue-flags').hover()
     await expect.poll(() => qPage.locator('.v-overlay__content').filter({ hasText: square }).count(), { timeout: 15_000 }).toBeGreaterThan(0)
-    await q.close()
+    await closeQ()
 
     // the supervisor's dashboard: the flag and the status tables use the same names
-    const d = await browser.newContext({ viewport: { width: 1440, height: 900 }, timezoneId })
-    const dPage = await signInAs(d, server.url, supervisor.email, supervisor.password)
-    await dPage.waitForURL(/\/dashboard$/)
+    const { page: dPage, close: closeD } = await openAs(supervisor, '/dashboard', timezoneId)
     const flagsCard = dPage.getByTestId('chart-flags')
     await flagsCard.getByTestId('view-table').click()
     await expect.poll(() => flagsCard.locator('table').textContent(), { timeout: 15_000 }).toContain(square)
     const statusCard = dPage.getByTestId('chart-status')
     await statusCard.getByTestId('view-table').click()
     await expect.poll(() => statusCard.locator('table').textContent(), { timeout: 15_000 }).toContain(inReview)
-    await d.close()
+    await closeD()
 
     // the listener's own case speaks to them
-    const l = await browser.newContext({ viewport: { width: 1280, height: 900 }, timezoneId })
-    const lPage = await signInAs(l, server.url, listener.email, listener.password)
-    await lPage.waitForURL((u) => !u.pathname.startsWith('/sign-in'))
-    await lPage.goto(`${server.url}/cases/${c.id}`, { waitUntil: 'networkidle' })
+    const { page: lPage, close: closeL } = await openAs(listener, `/cases/${c.id}`, timezoneId)
     await expect.poll(() => lPage.getByTestId('case-description-label').textContent(), { timeout: 15_000 }).toBe('What you hear and want')
     expect(await lPage.locator('body').textContent()).not.toMatch(/What they hear|What bothers them|What they can't change/)
     expect((await lPage.getByTestId('case-status').first().textContent())?.trim()).toBe(inReview)
     for (const t of await lPage.locator('time[datetime]').evaluateAll((ts) => ts.map((x) => ({ at: x.getAttribute('datetime')!, text: x.textContent!.trim() })))) {
       expect(t.text).toBe(formatDateTime(t.at, { timeZone: timezoneId }))
     }
-    await l.close()
+    await closeL()
   }, 240_000)
 
   it("an advisor's invitation page speaks of the desk, not the listener's room", async () => {
