@@ -16,6 +16,13 @@ export function checksToFix(flags: readonly { severity: string }[]): number {
 /** "Checks (5)": the label of every place that shows the checks with their count. */
 export const checksLabel = (flags: readonly { severity: string }[]): string => `Checks (${checksToFix(flags)})`
 
+/** Where all the checks are listed under that count: "5 to fix, 2 notes" (so a longer list reads right). */
+export function checksBreakdown(flags: readonly { severity: string }[]): string {
+  const fix = checksToFix(flags)
+  const notes = flags.length - fix
+  return notes ? `${fix} to fix, ${countOf(notes, 'note')}` : `${fix} to fix`
+}
+
 /**
  * The hint where before-and-after measurements are compared with the plan: what to do next, given how
  * many measurements the case has and how many are analysed. Read by the listener, so second person.

@@ -115,6 +115,14 @@ describe('one source of words: the same flag and status read the same on every p
     const square = flagLabel('near-square-plan')
     expect((await wsPage.getByTestId('case-status').first().textContent())?.trim()).toBe(inReview)
     expect(await wsPage.getByTestId('case-description-label').textContent()).toBe(caseAnswerWords.staff.description)
+    // one count of the checks: the composer's picker and the analysis tab say the same number, the problems and things worth a look
+    const severities = await wsPage.getByTestId('analysis-panel').first().getByTestId('flag-item').evaluateAll((items) =>
+      items.map((i) => (['problem', 'warning', 'info'].find((sev) => i.classList.contains(`flag-list__item--${sev}`)) ?? 'info')))
+    const toFix = severities.filter((sev) => sev !== 'info').length
+    expect((await wsPage.getByTestId('flag-picker').textContent())?.trim()).toBe(`Checks (${toFix})`)
+    const tab = (await wsPage.getByTestId('analysis-tab-flags').textContent()) ?? ''
+    expect(tab).toMatch(/^\s*Checks/)
+    expect(Number(/\d+/.exec(tab)?.[0] ?? '0')).toBe(toFix)
     const times = await wsPage.locator('time[datetime]').evaluateAll((ts) => ts.map((t) => ({ at: t.getAttribute('datetime')!, text: t.textContent!.trim() })))
     expect(times.length).toBeGreaterThan(0)
     for (const t of times) {

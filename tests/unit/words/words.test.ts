@@ -4,7 +4,7 @@ import { describe, expect, it } from 'vitest'
 import { SETUP_FLAG_IDS } from '../../../shared/acoustics/setup-flags'
 import { caseStatuses } from '../../../shared/schemas/case'
 import {
-  accountStory, beforeAfterHint, caseAnswerWords, caseStatusLabels, checksLabel, checksToFix, flagLabel, flagLabels, flagTitle,
+  accountStory, beforeAfterHint, caseAnswerWords, caseStatusLabels, checksBreakdown, checksLabel, checksToFix, flagLabel, flagLabels, flagTitle,
   formatAgo, formatDate, formatDateTime, listenerNextStep, openStatuses, severityLabels, statusEmailWords,
 } from '../../../shared/words'
 
@@ -95,6 +95,8 @@ describe('one count of the checks', () => {
   it('counts problems and things worth a look, not notes, and the label says that number', () => {
     expect(checksToFix(flags)).toBe(5)
     expect(checksLabel(flags)).toBe('Checks (5)')
+    expect(checksBreakdown(flags)).toBe('5 to fix, 2 notes')
+    expect(checksBreakdown(flags.slice(0, 5))).toBe('5 to fix')
   })
   it('the composer and the analysis tab both take their number from checksToFix / checksLabel', () => {
     const composer = files.find((f) => f.path === 'src/components/case/CaseThreadComposer.vue')!.text
