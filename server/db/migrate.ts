@@ -12,9 +12,10 @@ export type Migration = { up: (ctx: { context: QueryInterface }) => Promise<void
 
 /**
  * Migrations are numbered files `NNNN-what-it-does.ts` in server/db/migrations, applied in name order.
- * `dir` and `sequelize` are for the schema tests (a copy of earlier migrations, a database of their own).
+ * `sequelize` is for the schema snapshot and its test (a database of their own).
  */
-export function migrator(sequelize: Sequelize = db(), dir = migrationsDir) {
+export function migrator(sequelize: Sequelize = db()) {
+  const dir = migrationsDir
   const files = readdirSync(dir)
     .filter((f) => /^\d{4}-[a-z0-9-]+\.ts$/.test(f))
     .sort()
