@@ -88,6 +88,21 @@ describe('migrations', () => {
     expectSameSchema(catalog, snapshot)
   }, 120_000)
 
+  it('undo to an empty database and redo to the same schema (every down, then every up again)', async () => {
+    const { s } = await freshDatabase('redo')
+    await migrator(s).up()
+    await migrator(s).down({ to: 0 })
+    const left = await readCatalog(s)
+    // Only umzug's own ledger stays (and pgcrypto's functions, which 0001's down leaves like the extension).
+    expect([...new Set(left.columns.map((c) => c.table_name))]).toEqual(['schema_migrations'])
+    expect(left.enums).toEqual([])
+    expect(left.triggers).toEqual([])
+    expect(left.functions.map((f) => f.proname)).not.toContain('rw_working_seconds')
+    expect(left.functions.map((f) => f.proname)).not.toContain('treatment_plans_immutable')
+    await migrator(s).up()
+    expectSameSchema(await readCatalog(s), snapshot)
+  }, 120_000)
+
   it('take the demo database of an earlier version forward without losing a row or a value', async () => {
     const { s, url } = await freshDatabase('upgrade')
     // The dump is plain SQL (INSERTs) run as one script on a connection of its own (it empties search_path).
