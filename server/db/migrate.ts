@@ -15,15 +15,14 @@ export type Migration = { up: (ctx: { context: QueryInterface }) => Promise<void
  * `sequelize` is for the schema snapshot and its test (a database of their own).
  */
 export function migrator(sequelize: Sequelize = db()) {
-  const dir = migrationsDir
-  const files = readdirSync(dir)
+  const files = readdirSync(migrationsDir)
     .filter((f) => /^\d{4}-[a-z0-9-]+\.ts$/.test(f))
     .sort()
   return new Umzug<QueryInterface>({
     migrations: files.map((file) => ({
       name: file.replace(/\.ts$/, ''),
-      up: async ({ context }) => ((await import(pathToFileURL(join(dir, file)).href)) as Migration).up({ context }),
-      down: async ({ context }) => ((await import(pathToFileURL(join(dir, file)).href)) as Migration).down({ context }),
+      up: async ({ context }) => ((await import(pathToFileURL(join(migrationsDir, file)).href)) as Migration).up({ context }),
+      down: async ({ context }) => ((await import(pathToFileURL(join(migrationsDir, file)).href)) as Migration).down({ context }),
     })),
     context: sequelize.getQueryInterface(),
     storage: new SequelizeStorage({ sequelize, tableName: 'schema_migrations' }),

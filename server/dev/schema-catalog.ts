@@ -1,13 +1,13 @@
 /**
  * What a migration can change in a database, read from PostgreSQL's own catalogs (information_schema,
- * pg_constraint, pg_indexes, pg_enum, pg_proc, pg_trigger) as plain rows. The schema test compares a
+ * pg_constraint, pg_indexes, pg_enum, pg_proc, pg_trigger, pg_extension) as plain rows. The schema test compares a
  * fresh database with the committed snapshot (tests/fixtures/schema/schema.json) through this, and
  * server/dev/schema-snapshot.ts writes that snapshot with it.
  * Raw SQL: catalog queries, which the ORM has no models for.
  */
 import { QueryTypes, type Sequelize } from 'sequelize'
 
-export type Catalog = Record<'columns' | 'constraints' | 'indexes' | 'enums' | 'functions' | 'triggers', Record<string, unknown>[]>
+export type Catalog = Record<'columns' | 'constraints' | 'indexes' | 'enums' | 'functions' | 'triggers' | 'extensions', Record<string, unknown>[]>
 
 const queries: Record<keyof Catalog, string> = {
   columns: `SELECT table_name, column_name, ordinal_position, data_type, udt_name, is_nullable, column_default, character_maximum_length,
@@ -18,8 +18,13 @@ const queries: Record<keyof Catalog, string> = {
   indexes: `SELECT tablename, indexname, indexdef FROM pg_indexes WHERE schemaname = 'public' ORDER BY tablename, indexname`,
   enums: `SELECT t.typname, array_agg(e.enumlabel ORDER BY e.enumsortorder)::text AS labels
             FROM pg_type t JOIN pg_enum e ON e.enumtypid = t.oid GROUP BY t.typname ORDER BY t.typname`,
-  functions: `SELECT p.proname, pg_get_function_arguments(p.oid) AS args, md5(p.prosrc) AS src
-                FROM pg_proc p JOIN pg_namespace n ON n.oid = p.pronamespace WHERE n.nspname = 'public' ORDER BY 1, 2`,
+  // Our own functions in full (arguments, result, language, volatility, body); an extension's own (pgcrypto's)
+  // are left out, they come with the extension and its version, listed by name only.
+  functions: `SELECT p.proname, pg_get_function_arguments(p.oid) AS args, pg_get_functiondef(p.oid) AS def
+                FROM pg_proc p JOIN pg_namespace n ON n.oid = p.pronamespace
+               WHERE n.nspname = 'public' AND NOT EXISTS (SELECT 1 FROM pg_depend d WHERE d.objid = p.oid AND d.deptype = 'e')
+               ORDER BY 1, 2`,
+  extensions: `SELECT extname FROM pg_extension ORDER BY 1`,
   triggers: `SELECT tgrelid::regclass::text AS table_name, tgname, pg_get_triggerdef(oid) AS def FROM pg_trigger WHERE NOT tgisinternal ORDER BY 1, 2`,
 }
 

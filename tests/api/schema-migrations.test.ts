@@ -79,7 +79,7 @@ function asRestored(c: Catalog): Catalog {
 }
 
 describe('migrations', () => {
-  it('build a fresh database equal to the committed schema snapshot (information_schema, pg_constraint, pg_indexes, pg_enum, pg_proc, pg_trigger)', async () => {
+  it('build a fresh database equal to the committed schema snapshot (information_schema, pg_constraint, pg_indexes, pg_enum, pg_proc, pg_trigger, pg_extension)', async () => {
     const { s } = await freshDatabase('fresh')
     await migrator(s).up()
     const catalog = await readCatalog(s)
