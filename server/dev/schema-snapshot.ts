@@ -6,11 +6,12 @@
  *       (server/dev/schema-catalog.ts) of a fresh database built by this tree's migrations. Run it after
  *       adding a migration and commit the file; its diff is exactly what the new migration does, and a
  *       diff anywhere else means an applied migration's effect changed (which must not happen).
- *   npx tsx server/dev/schema-snapshot.ts --demo REV tests/fixtures/schema/demo-earlier.sql: a plain-SQL
+ *   npx tsx server/dev/schema-snapshot.ts --demo REV tests/fixtures/schema/demo-earlier.sql.gz: a plain-SQL
  *       pg_dump (INSERTs, no owners) of the database that commit REV's own migrations and demo seed
  *       build, i.e. an earlier version's demo database with its rows. Rarely needed: only to move the
  *       "earlier version" forward.
  */
+import { gzipSync } from 'node:zlib'
 import { execFileSync, spawnSync } from 'node:child_process'
 import { mkdtempSync, rmSync, symlinkSync, writeFileSync, mkdirSync, chmodSync } from 'node:fs'
 import { tmpdir } from 'node:os'
@@ -69,13 +70,14 @@ function writeDemo(rev: string, url: string, home: string) {
     encoding: 'utf8', maxBuffer: 512 * 1024 * 1024,
   })
   const body = dump.split('\n').filter((l) => !l.startsWith('\\')).join('\n')
-  const file = join(snapshotDir, 'demo-earlier.sql')
-  writeFileSync(file, [
+  const file = join(snapshotDir, 'demo-earlier.sql.gz')
+  // gzip: the plain SQL is ~6 MB, compressed ~1.3 MB in the repository
+  writeFileSync(file, gzipSync([
     `-- The demo database of Roomwright at commit ${commit}, built by that commit's own migrations and demo seed.`,
     `-- Written by server/dev/schema-snapshot.ts --demo ${rev}; data for tests/api/schema-migrations.test.ts, do not edit.`,
     ...ran.map((l) => `-- ${l}`),
     body,
-  ].join('\n'))
+  ].join('\n'), { level: 9 }))
   say(`wrote ${file} (${ran.join('; ')})`)
 }
 

@@ -4,10 +4,11 @@
  * - tests/fixtures/schema/schema.json, the catalog (columns, constraints, indexes, enum types, functions,
  *   triggers; server/dev/schema-catalog.ts) of a fresh database: a fresh database built today must equal it,
  *   so a migration whose effect changed fails here (and every down, then every up again, comes back to it);
- * - tests/fixtures/schema/demo-earlier.sql, a pg_dump of an earlier version's demo database with its rows:
+ * - tests/fixtures/schema/demo-earlier.sql.gz, a pg_dump of an earlier version's demo database with its rows:
  *   restored and taken forward by today's migrations, it loses no row, keeps every earlier column's
  *   values, and ends with the same schema as a fresh database.
  */
+import { gunzipSync } from 'node:zlib'
 import { afterAll, describe, expect, it } from 'vitest'
 import { Sequelize, QueryTypes } from 'sequelize'
 import pg from 'pg'
@@ -107,7 +108,7 @@ describe('migrations', () => {
     // The dump is plain SQL (INSERTs) run as one script on a connection of its own (it empties search_path).
     const c = new pg.Client({ connectionString: url })
     await c.connect()
-    await c.query(readFileSync(join(fixtures, 'demo-earlier.sql'), 'utf8'))
+    await c.query(gunzipSync(readFileSync(join(fixtures, 'demo-earlier.sql.gz'))).toString('utf8'))
     await c.end()
 
     // Snippets that an advisor wrote on the earlier version (its seed had none), so that 0050 meets rows.
