@@ -71,6 +71,10 @@ describe('a signed-out visitor', () => {
     const seen = watch(page)
     for (const path of ['/', '/sign-in', '/sign-up']) {
       await page.goto(`${server.url}${path}`, { waitUntil: 'networkidle' })
+      // on a loaded machine "network idle" can come between the session answer and the page's own chunks:
+      // wait for the form itself, so the next visit does not cut a chunk's download short
+      await page.getByTestId('signin-email').or(page.getByTestId('signup-email')).first().waitFor()
+      await page.waitForLoadState('networkidle')
     }
     await page.getByTestId('signin-email').or(page.locator('input[type=email]')).first().waitFor()
     // moving between the two forms inside the app, as a visitor does
