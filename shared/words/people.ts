@@ -43,7 +43,7 @@ export const accountStory: Record<Reader, { headline: string; lead: string; poin
       'the reflections at the seat and the setup flags, so you can start from the findings.',
     points: [
       'A queue ordered by what needs an answer first, with the room checks on every case.',
-      'Replies, snippets and treatment plans written in one workspace, next to the analysis.',
+      'Replies and snippets beside the analysis, and a plan editor that predicts what each treatment changes.',
       'Safety notes on fixings, fire ratings and loud test signals travel with every plan.',
     ],
   },
