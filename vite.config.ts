@@ -18,6 +18,9 @@ export default defineConfig({
     include: ['tests/**/*.test.ts'],
     testTimeout: 60_000,
     hookTimeout: 60_000,
+    // expect.poll waits for a page or the server to catch up; vitest's 1 s default is shorter than one
+    // request takes on a loaded 2-core machine, so a poll without its own timeout failed at random.
+    expect: { poll: { timeout: 15_000 } },
     maxWorkers: 2,
     globalSetup: ['tests/helpers/global-setup.ts'],
     setupFiles: ['tests/helpers/per-file-db.ts'],
