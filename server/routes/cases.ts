@@ -23,8 +23,12 @@ export function casesRouter(): Router {
       const rows = await listMyCases(user)
       return res.json({ rows, total: rows.length })
     }
-    // the page's JSON text comes made with the (cached) page: the same bytes res.json would send
-    res.type('json').send((await teamQueue(user, req.query)).json)
+    // the page's JSON bytes and ETag come made with the (cached) page: the same answer res.json would give
+    const page = await teamQueue(user, req.query)
+    const etagOf = req.app.get('etag fn') as ((body: Buffer) => string) | undefined
+    page.etag ??= etagOf?.(page.body)
+    if (page.etag) res.set('ETag', page.etag)
+    res.type('json').send(page.body)
   })
   router.post('/', requireRole('listener'), validate(createCaseSchema), async (req, res) => res.status(201).json(await createCase(currentUser(req), res.locals.body)))
   router.get('/:id', requireSignedIn, id, async (req, res) => res.json(await readableCase(currentUser(req), String(req.params.id))))

@@ -15,8 +15,11 @@ import type { User } from '../../shared/schemas/auth'
 export const QUEUE_CACHE_MS = 2_000
 const QUEUE_CACHE_MAX = 500
 
-/** A page and its JSON text, made once per computed page (serialising 25 rows cost more than the rest of a cached answer). */
-export interface CachedPage { page: QueuePage; json: string }
+/**
+ * A page, its JSON bytes and their ETag (the route fills it in with Express's own function), made once
+ * per computed page: serialising, encoding and hashing 25 rows cost more than the rest of a cached answer.
+ */
+export interface CachedPage { page: QueuePage; body: Buffer; etag?: string }
 interface Entry { at: number; page: CachedPage }
 const pages = new Map<string, Entry>()
 const computing = new Map<string, Promise<CachedPage>>()
@@ -72,7 +75,7 @@ async function cachedPage(user: User, query: QueueQuery): Promise<CachedPage> {
   stats.misses++
   const g = generation
   const at = Date.now()
-  const p = queuePage(user.id, query).then((page) => ({ page, json: JSON.stringify(page) })).finally(() => {
+  const p = queuePage(user.id, query).then((page): CachedPage => ({ page, body: Buffer.from(JSON.stringify(page)) })).finally(() => {
     if (computing.get(key) === p) computing.delete(key)
   })
   computing.set(key, p)
