@@ -1,0 +1,10 @@
+/** Small helpers the room form's blocks share. */
+
+/** The messages for one field of a row of a list (`openings.2.from`), empty when it is fine. */
+export const rowErrors = (errors: Record<string, string[]>, path: string) => (index: number, field: string) => errors[`${path}.${index}.${field}`] ?? []
+
+export const capitalised = (s: string) => s.replace(/^./, (c) => c.toUpperCase())
+
+/** A select's items from a list of values and their names, the names capitalised. */
+export const nameItems = <V extends string>(values: readonly V[], names: Partial<Record<string, string>>) =>
+  values.map((value) => ({ value, title: capitalised(names[value] ?? value) }))
