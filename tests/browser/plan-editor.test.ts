@@ -1,5 +1,5 @@
 import { afterAll, beforeAll, describe, expect, it } from 'vitest'
-import type { Browser } from 'playwright-core'
+import type { Browser, Page } from 'playwright-core'
 import { join } from 'node:path'
 import request from 'supertest'
 import { launchBrowser, screenshotDir, signInAs, startProduct } from '../helpers/browser'
@@ -17,6 +17,21 @@ afterAll(async () => {
   await browser?.close()
   await server?.close()
 })
+
+/** What reaches past the right edge of its column in the plan editor (tag, class and test id of each). */
+function overflowing(page: Page): Promise<string[]> {
+  return page.evaluate(() => {
+    const out: string[] = []
+    for (const col of document.querySelectorAll<HTMLElement>('.plan-editor__col')) {
+      const edge = col.getBoundingClientRect().right
+      for (const el of col.querySelectorAll<HTMLElement>('*')) {
+        const r = el.getBoundingClientRect()
+        if (r.width > 0 && r.right > edge + 1) out.push(`${el.tagName.toLowerCase()}.${String(el.className.baseVal ?? el.className).split(' ')[0]} ${el.dataset.testid ?? ''} (${Math.round(r.right - edge)} px past)`.trim())
+      }
+    }
+    return out.slice(0, 12)
+  })
+}
 
 /** A signed-in API agent against the running product. */
 async function agentFor(user: { email: string; password: string }) {
@@ -52,6 +67,20 @@ describe('the plan editor', () => {
     await page.getByTestId('plan-target-corner-front-right').click()
     await expect.poll(() => page.getByTestId('plan-order').locator('li').count(), { timeout: 15_000 }).toBe(3)
     await page.screenshot({ path: join(screenshotDir(), 'plan-editor.png'), fullPage: true })
+
+    // At 1440 px the three columns sit side by side: nothing in them reaches past its column, and the
+    // reflections table shows every column without scrolling inside its box.
+    await page.setViewportSize({ width: 1440, height: 1000 })
+    await page.getByTestId('plan-reflections').locator('tbody tr').first().waitFor()
+    await expect.poll(() => overflowing(page), { timeout: 10_000 }).toEqual([])
+    const table = await page.getByTestId('plan-reflections').evaluate((t) => {
+      const wrapper = t.querySelector('.v-table__wrapper') as HTMLElement
+      const right = wrapper.getBoundingClientRect().right
+      return { scroll: wrapper.scrollWidth, client: wrapper.clientWidth, clippedHeads: [...t.querySelectorAll('th')].filter((th) => th.getBoundingClientRect().right > right + 1).map((th) => th.textContent) }
+    })
+    expect(table.clippedHeads).toEqual([])
+    expect(table.scroll).toBeLessThanOrEqual(table.client + 1)
+    await page.screenshot({ path: join(screenshotDir(), 'plan-editor-1440.png'), fullPage: true })
 
     await page.getByTestId('plan-save').click()
     await page.getByTestId('plan-saved-note').waitFor({ timeout: 15_000 })
