@@ -26,7 +26,7 @@ function overflowing(page: Page): Promise<string[]> {
       const edge = col.getBoundingClientRect().right
       for (const el of col.querySelectorAll<HTMLElement>('*')) {
         const r = el.getBoundingClientRect()
-        if (r.width > 0 && r.right > edge + 1) out.push(`${el.tagName.toLowerCase()}.${String(el.className.baseVal ?? el.className).split(' ')[0]} ${el.dataset.testid ?? ''} (${Math.round(r.right - edge)} px past)`.trim())
+        if (r.width > 0 && r.right > edge + 1) out.push(`${el.tagName.toLowerCase()}.${String((el.className as unknown as { baseVal?: string }).baseVal ?? el.className).split(' ')[0]} ${el.dataset.testid ?? ''} (${Math.round(r.right - edge)} px past)`.trim())
       }
     }
     return out.slice(0, 12)
