@@ -76,6 +76,9 @@ export type Writer = ReturnType<typeof writer>
 
 export interface Column { title: string; width: number; align?: 'left' | 'right' }
 
+/** Figure columns of one width, right-aligned. */
+export const rightColumns = (titles: string[], width: number): Column[] => titles.map((title) => ({ title, width, align: 'right' }))
+
 function table(doc: Doc, cols: Column[], rows: string[][], opts: { boldLast?: boolean } = {}) {
   const pad = 3
   const size = 8.8

@@ -1,14 +1,11 @@
 import { shoppingList, surfaceWords } from '../../../shared/plan'
 import { drawLfChart, drawRtChart } from './charts'
-import { CONTENT_W, MARGIN, f2 } from './pdf-doc'
-import type { Section } from './sections'
+import { CONTENT_W, MARGIN, f2, rightColumns } from './pdf-doc'
+import { unpack, type Section } from './sections'
 
 /** The report's predictions: the before/after charts, the reflection table, flags, the shopping list and the absorption sources. */
 export function predictionPages(ctx: Section) {
-  const { doc, text, heading, sub, para, ensureSpace, bottom, table } = ctx.w
-  const { input, stepOf } = ctx
-  const { plan, room } = input
-  const pr = plan.predictions
+  const { doc, heading, sub, para, ensureSpace, table, stepOf, plan, room, pr } = unpack(ctx)
   doc.addPage()
   heading('Before and after (predicted)')
   sub('Reverberation time per octave band')
@@ -17,10 +14,7 @@ export function predictionPages(ctx: Section) {
   doc.y += 206
   table([
     { title: 'Band', width: 60 },
-    { title: 'Sabine today', width: 80, align: 'right' },
-    { title: 'Sabine after', width: 80, align: 'right' },
-    { title: 'Eyring today', width: 80, align: 'right' },
-    { title: 'Eyring after', width: 80, align: 'right' },
+    ...rightColumns(['Sabine today', 'Sabine after', 'Eyring today', 'Eyring after'], 80),
     { title: 'Target', width: CONTENT_W - 380, align: 'right' },
   ], pr.reverberation.bands.map((b) => [`${b.hz} Hz`, `${f2(b.sabineBefore)} s`, `${f2(b.sabineAfter)} s`, `${f2(b.eyringBefore)} s`, `${f2(b.eyringAfter)} s`, `${f2(b.lower)}-${f2(b.upper)} s`]))
 
@@ -70,12 +64,7 @@ export function predictionPages(ctx: Section) {
   sub('Where the absorption figures come from')
   table([
     { title: 'Step', width: 34 },
-    { title: '125', width: 34, align: 'right' },
-    { title: '250', width: 34, align: 'right' },
-    { title: '500', width: 34, align: 'right' },
-    { title: '1k', width: 34, align: 'right' },
-    { title: '2k', width: 34, align: 'right' },
-    { title: '4k', width: 34, align: 'right' },
+    ...rightColumns(['125', '250', '500', '1k', '2k', '4k'], 34),
     { title: 'Source of the coefficients', width: CONTENT_W - 238 },
   ], [...pr.absorption].sort((x, y) => (stepOf.get(x.changeId) ?? 0) - (stepOf.get(y.changeId) ?? 0)).map((a) => [String(stepOf.get(a.changeId) ?? ''), ...[1, 2, 3, 4, 5, 6].map((k) => (a.alpha[k] === null ? '-' : a.alpha[k]!.toFixed(2))), a.source]))
 }

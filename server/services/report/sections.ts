@@ -10,12 +10,12 @@ export interface Section {
   stepOf: Map<string, number>
 }
 
+/** A section's tools and data in one: the writer's helpers, the input, the plan, its room and its predictions. */
+export const unpack = (ctx: Section) => ({ ...ctx.w, ...ctx, plan: ctx.input.plan, room: ctx.input.room, pr: ctx.input.plan.predictions })
+
 /** Page 1: the case, the figures at the main seat today and after, the steps in order and the advisor's notes. */
 export function summaryPage(ctx: Section) {
-  const { doc, text, heading, sub, para, ensureSpace, bottom, table } = ctx.w
-  const { input, stepOf } = ctx
-  const { plan, room } = input
-  const pr = plan.predictions
+  const { doc, text, heading, sub, para, ensureSpace, table, input, plan, room, pr } = unpack(ctx)
   const changeOf = new Map(pr.changes.map((c) => [c.id, c]))
   const sentWords = plan.sentAt
     ? `sent ${new Date(plan.sentAt).toISOString().slice(0, 10)}${plan.sentBy ? ` by ${plan.sentBy.name}` : ''}`
@@ -77,10 +77,7 @@ export function summaryPage(ctx: Section) {
 
 /** The drawings: the plan view, the four walls, where each item goes and the new seat and speaker positions. */
 export function drawingPages(ctx: Section) {
-  const { doc, text, heading, sub, para, ensureSpace, bottom, table } = ctx.w
-  const { input, stepOf } = ctx
-  const { plan, room } = input
-  const pr = plan.predictions
+  const { doc, heading, sub, para, bottom, table, input, stepOf, plan, room } = unpack(ctx)
   doc.addPage()
   heading('The room seen from above')
   para('Front wall (behind the speakers) at the top, left wall on the left as seen from the seat. Plan items are numbered by their step; dimensions in metres to the edges of each item from the nearest walls. Existing treatment in beige; dashed outlines hang from the ceiling or lie on the floor.', { lineGap: 1 })
@@ -124,10 +121,7 @@ export function drawingPages(ctx: Section) {
 
 /** The last section: measuring again, the safety cautions and how the order was chosen. */
 export function closingPages(ctx: Section) {
-  const { doc, text, heading, sub, para, ensureSpace, bottom, table } = ctx.w
-  const { input, stepOf } = ctx
-  const { plan, room } = input
-  const pr = plan.predictions
+  const { doc, text, heading, sub, para, ensureSpace, pr } = unpack(ctx)
   heading(FOLLOW_UP_MEASURING.title)
   FOLLOW_UP_MEASURING.steps.forEach((s, i) => para(`${i + 1}. ${s}`))
   heading('Before you build, hang or measure')

@@ -1,3 +1,4 @@
+import { capitalise } from '../../../shared/plan/names'
 import type { UnitSystem } from '../../composables/useUnits'
 
 /** Small helpers the room form's blocks share. */
@@ -5,11 +6,10 @@ import type { UnitSystem } from '../../composables/useUnits'
 /** The messages for one field of a row of a list (`openings.2.from`), empty when it is fine. */
 export const rowErrors = (errors: Record<string, string[]>, path: string) => (index: number, field: string) => errors[`${path}.${index}.${field}`] ?? []
 
-export const capitalised = (s: string) => s.replace(/^./, (c) => c.toUpperCase())
 
 /** A select's items from a list of values and their names, the names capitalised. */
 export const nameItems = <V extends string>(values: readonly V[], names: Partial<Record<string, string>>) =>
-  values.map((value) => ({ value, title: capitalised(names[value] ?? value) }))
+  values.map((value) => ({ value, title: capitalise(names[value] ?? value) }))
 
 /** What every block of the room form is given: the user's unit, the messages per field path, and whether it is read only. */
 export interface RoomBlockProps {

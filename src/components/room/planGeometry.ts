@@ -1,5 +1,3 @@
-import type { Surface } from '../../../shared/acoustics'
-
 /** Drawing units per view: the longer side of the drawn rectangle gets this many. */
 export const PLAN_SPAN = 360
 export const ELEVATION_SPAN = 300
@@ -10,14 +8,8 @@ export function snapInside(metres: number, size: number, margin = 0.01): number 
   return Math.min(Math.max(snapped, margin), Math.max(margin, Math.round((size - margin) * 100) / 100))
 }
 
-export const surfaceNames: Record<Surface, string> = {
-  front: 'front wall',
-  back: 'back wall',
-  left: 'left wall',
-  right: 'right wall',
-  floor: 'floor',
-  ceiling: 'ceiling',
-}
+/** the surfaces' names, the same words as the plan's (one source) */
+export { surfaceWords as surfaceNames } from '../../../shared/plan/names'
 
 export const openingNames: Record<string, string> = {
   door: 'door',
