@@ -24,7 +24,7 @@ export interface InboundEmail {
   autoSubmitted?: string
 }
 
-export type InboundRejection = 'no_reply_address' | 'unknown_token' | 'sender_mismatch' | 'auto_reply' | 'empty_reply' | `case_${string}`
+export type InboundRejection = 'no_reply_address' | 'unknown_token' | 'sender_mismatch' | 'listener_inactive' | 'auto_reply' | 'empty_reply' | `case_${string}`
 export type InboundResult = { accepted: true; caseId: string; messageId?: string } | { accepted: false; reason: InboundRejection }
 export type AppendReply = (input: { caseId: string; userId: string; body: string }) => Promise<{ id?: string } | unknown>
 
@@ -172,8 +172,8 @@ export async function handleInboundEmail(mail: InboundEmail, opts: { via?: 'smtp
 
   const token = extractReplyToken(mail.to)
   if (!token) return reject('no_reply_address')
-  const [c] = await db().query<{ id: string; reply_token: string; listener_id: string; listener_email: string }>(
-    'SELECT c.id, c.reply_token, c.listener_id, u.email AS listener_email FROM cases c JOIN users u ON u.id = c.listener_id WHERE c.reply_token = $1',
+  const [c] = await db().query<{ id: string; reply_token: string; listener_id: string; listener_email: string; listener_active: boolean }>(
+    'SELECT c.id, c.reply_token, c.listener_id, u.email AS listener_email, u.active AS listener_active FROM cases c JOIN users u ON u.id = c.listener_id WHERE c.reply_token = $1',
     { bind: [token], type: QueryTypes.SELECT },
   )
   if (!c || !sameToken(c.reply_token, token)) return reject('unknown_token')
@@ -182,6 +182,8 @@ export async function handleInboundEmail(mail: InboundEmail, opts: { via?: 'smtp
     await holdForTeam(c.id, mail, sender)
     return reject('sender_mismatch', c.id)
   }
+  // a switched-off account may not write through the web, so not by e-mail either
+  if (!c.listener_active) return reject('listener_inactive', c.id)
   if (mail.autoSubmitted && mail.autoSubmitted.trim().toLowerCase() !== 'no') return reject('auto_reply', c.id)
 
   const source = mail.text?.trim() ? mail.text : mail.html ? htmlToReplyText(mail.html) : ''

@@ -255,6 +255,16 @@ export function navigationFor(routes: readonly NamedRoute[], role: Role): { name
 
 /** A `redirect` query value that is safe to follow: a path on this site, never another origin. */
 export function safeRedirect(value: unknown): string | null {
-  if (typeof value !== 'string' || !value.startsWith('/') || value.startsWith('//') || value.startsWith('/\\')) return null
+  // The URL parser drops tabs and line breaks and reads `\` as `/`, so `/\t/evil.example` is `//evil.example`:
+  // any control character or backslash is refused, and what is left must resolve to this origin.
+  if (typeof value !== 'string' || !value.startsWith('/') || /[\u0000-\u001f\u007f\\]/.test(value)) return null
+  const base = 'https://same-origin.invalid'
+  let url: URL
+  try {
+    url = new URL(value, base)
+  } catch {
+    return null
+  }
+  if (url.origin !== base || value.startsWith('//')) return null
   return value
 }
