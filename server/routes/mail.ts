@@ -53,14 +53,17 @@ const inboundBody = z.object({
   subject: z.string().max(1000).default(''),
   text: z.string().max(1_000_000).optional(),
   html: z.string().max(2_000_000).optional(),
+  /** the receiving server's Authentication-Results (RFC 8601), when the provider passes it on */
+  authenticationResults: z.string().max(4000).optional(),
 })
 
 /** Rejections the sender cannot fix by retrying: who may write is refused (403), what was written is unusable (422). */
-const rejectionStatus = (reason: string) => (reason === 'unknown_token' || reason === 'sender_mismatch' || reason === 'no_reply_address' || reason === 'listener_inactive' ? 403 : 422)
+const rejectionStatus = (reason: string) => (reason === 'unknown_token' || reason === 'sender_mismatch' || reason === 'sender_unverified' || reason === 'no_reply_address' || reason === 'listener_inactive' ? 403 : 422)
 const rejectionMessage: Record<string, string> = {
   no_reply_address: 'No recipient is a case reply address',
   unknown_token: 'The reply address matches no case',
   sender_mismatch: 'The sender is not the listener of this case',
+  sender_unverified: 'The receiving mail server found the sender forged (SPF/DMARC failed)',
   listener_inactive: 'The listener\'s account is switched off',
   auto_reply: 'Automatic replies are not added to cases',
   empty_reply: 'Nothing was left once the quoted history was removed',

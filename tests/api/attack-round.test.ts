@@ -87,6 +87,23 @@ describe('the inbound reply webhook', () => {
     expect(Number(n)).toBe(0)
   })
 
+  it('a reply whose sender the receiving server found forged (RFC 8601 dmarc=fail, or spf=fail without dkim=pass) is held for the team, not posted as the listener', async () => {
+    const listener = await signedIn('listener')
+    const { case: c } = await openCase(listener.c)
+    const [{ reply_token: token }] = await db().query<{ reply_token: string }>('SELECT reply_token FROM cases WHERE id = $1', { bind: [c.id], type: QueryTypes.SELECT })
+    const to = `reply+${token}@${config().MAIL_REPLY_DOMAIN}`
+    const forged = await post({ to, from: listener.user.email, subject: 'Re: case', text: 'Please send the panels to my new address', authenticationResults: `mx.example.net; spf=fail smtp.mailfrom=${listener.user.email}; dkim=none; dmarc=fail header.from=example.test` }, SECRET, '198.51.100.201').expect(403)
+    expect(forged.body.error.code).toBe('sender_unverified')
+    const softly = await post({ to, from: listener.user.email, subject: 'Re: case', text: 'SPF failed but the signature holds', authenticationResults: 'mx.example.net; spf=fail smtp.mailfrom=example.test; dkim=pass header.d=example.test' }, SECRET, '198.51.100.201').expect(201)
+    expect(softly.body.accepted).toBe(true)
+    const thread = (await listener.c.get(`/api/cases/${c.id}/messages`).expect(200)).body.messages as { body: string }[]
+    expect(thread.some((m) => m.body.includes('new address'))).toBe(false)
+    expect(thread.some((m) => m.body === 'SPF failed but the signature holds')).toBe(true)
+    const advisor = await signedIn('advisor')
+    const staffThread = (await advisor.c.get(`/api/cases/${c.id}/messages`).expect(200)).body.messages as { body: string; internal: boolean }[]
+    expect(staffThread.find((m) => m.body.includes('new address'))).toMatchObject({ internal: true })
+  })
+
   it('wrong secrets are limited per address (4 here, then 429), the right secret from another address still works', async () => {
     const body = { to: `reply+nothing@${config().MAIL_REPLY_DOMAIN}`, from: 'someone@example.test', subject: 'x', text: 'x' }
     for (let i = 0; i < 4; i++) await post(body, `guess-${i}-0123456789abcdef`, '203.0.113.90').expect(401)
