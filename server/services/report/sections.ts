@@ -1,4 +1,5 @@
 import { CAUTIONS, FOLLOW_UP_MEASURING, placement, treatmentTypeNames } from '../../../shared/plan'
+import { formatDate } from '../../../shared/words/dates'
 import { drawElevations } from './elevations'
 import { A4, COLORS, CONTENT_W, MARGIN, f2, pdfText, plainMarkdown, type PlanPdfInput, type Writer } from './pdf-doc'
 import { drawPlanView } from './plan-view'
@@ -18,7 +19,7 @@ export function summaryPage(ctx: Section) {
   const { doc, text, heading, sub, para, ensureSpace, table, input, plan, room, pr } = unpack(ctx)
   const changeOf = new Map(pr.changes.map((c) => [c.id, c]))
   const sentWords = plan.sentAt
-    ? `sent ${new Date(plan.sentAt).toISOString().slice(0, 10)}${plan.sentBy ? ` by ${plan.sentBy.name}` : ''}`
+    ? `sent ${formatDate(plan.sentAt, { timeZone: 'UTC' })}${plan.sentBy ? ` by ${plan.sentBy.name}` : ''}`
     : 'draft, not yet sent'
 
   doc.rect(0, 0, A4.w, 70).fill(COLORS.after)
