@@ -1,6 +1,5 @@
 import { randomUUID } from 'node:crypto'
-import { QueryTypes } from 'sequelize'
-import { db } from '../../db/sequelize'
+import { models } from '../../db/models'
 import { findUserByEmail, toPublicUser } from '../../data/users'
 import { findRoom } from '../../data/rooms'
 import { createRoom } from '../../services/rooms'
@@ -32,21 +31,20 @@ export async function seed(): Promise<void> {
   const teodor = await person('advisor@roomwright.test')
   const priya = await person('priya.halvorsen@roomwright.test')
 
-  const [garden] = await db().query<{ id: string; room_id: string; room_revision: number }>(
-    `SELECT c.id, c.room_id, c.room_revision FROM cases c
-      WHERE c.listener_id = $1 AND c.status = 'plan_sent' AND NOT EXISTS (SELECT 1 FROM treatment_plans p WHERE p.case_id = c.id)
-      ORDER BY c.created_at LIMIT 1`,
-    { bind: [felix.id], type: QueryTypes.SELECT },
-  )
+  const { Case, Room } = models()
+  const sent = await Case.findAll({
+    attributes: ['id', 'roomId', 'roomRevision', 'createdAt'], where: { listenerId: felix.id, status: 'plan_sent' },
+    include: [{ association: 'plans', attributes: ['id'], required: false }], order: [['createdAt', 'ASC']],
+  })
+  const garden = sent.find((c) => !c.plans?.length)
   if (garden) {
-    const room = (await findRoom(garden.room_id, garden.room_revision))!.room
+    const room = (await findRoom(garden.roomId, garden.roomRevision))!.room
     const v = await createPlan(teodor, garden.id, demoPlanBody(room, 'Your room is already close to ideal. The **cloud** above the desk catches the ceiling reflection; the front-corner traps take the edge off the 60 Hz boom.\n\nHang the cloud only from fixings rated for its weight, and re-measure at the mix position afterwards.'))
     await sendPlan(teodor, garden.id, v.version, { fromStatus: 'plan_sent', message: 'Felix, here are the details I promised: the cloud first, then the corner traps.' })
   }
 
   // Maren's box-room studio: submitted, claimed by Priya, one question and answer, measurements, plan sent.
-  const existing = await db().query(`SELECT 1 FROM rooms WHERE owner_id = $1 AND name = $2`, { bind: [maren.id, demoRooms.smallStudio.name], type: QueryTypes.SELECT })
-  if (existing.length) return
+  if (await Room.count({ where: { ownerId: maren.id, name: demoRooms.smallStudio.name } })) return
   const room = await createRoom(maren, roomSchema.parse(demoRooms.smallStudio))
   const c = await createCase(maren, {
     roomId: room.id, title: 'My mixes sound thin everywhere else',
@@ -71,6 +69,6 @@ export async function seed(): Promise<void> {
   }
   await postMessage(maren, c.id, { body: 'Here are both speakers measured from the chair, at a moderate level.', fileIds })
   const plan = await createPlan(priya, c.id, demoPlanBody(room.room, 'In a room this size the bass is set by the **corners** first. The traps stand on the floor, so nothing is fixed to the walls of your rented flat.\n\n1. Move the chair as marked.\n2. Put the two corner traps in the front corners.\n3. Hang the side panels at the marked points.\n\nRe-measure from the chair after each step.'))
-  const current = (await db().query<{ status: string }>(`SELECT status FROM cases WHERE id = $1`, { bind: [c.id], type: QueryTypes.SELECT }))[0]
+  const current = (await Case.findByPk(c.id, { attributes: ['status'] }))!
   await sendPlan(priya, c.id, plan.version, { fromStatus: current.status as 'in_review', message: 'Maren, thanks for the measurements: they confirm the pile-up near 55 Hz. Here is the plan, in the order I would do it.' })
 }
