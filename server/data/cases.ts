@@ -1,4 +1,4 @@
-import { Op, literal, type Transaction } from 'sequelize'
+import { Op, col, fn, type Transaction } from 'sequelize'
 import { randomBytes } from 'node:crypto'
 import { models, type CaseModel } from '../db/models'
 import { dbNow } from '../db/models/now'
@@ -50,6 +50,9 @@ export async function listCasesOfListener(listenerId: string): Promise<CaseSumma
   return rows.map(caseToSummary)
 }
 
+/** The column's time when it has one, else the database clock (`COALESCE(column, now())`). */
+const keep = (column: string) => fn('COALESCE', col(column), dbNow())
+
 /** Moves a case from exactly `from` to `to`; false when someone else moved it first (a stale transition). */
 export async function updateStatus(id: string, from: CaseStatus, to: CaseStatus, t: Transaction): Promise<boolean> {
   const [n] = await models().Case.update(
@@ -57,9 +60,9 @@ export async function updateStatus(id: string, from: CaseStatus, to: CaseStatus,
       status: to,
       updatedAt: dbNow(),
       lastActivityAt: dbNow(),
-      ...(to === 'submitted' ? { submittedAt: literal('COALESCE(submitted_at, now())') } : {}),
+      ...(to === 'submitted' ? { submittedAt: keep('submitted_at') } : {}),
       closedAt: to === 'closed' ? dbNow() : null,
-      waitingSince: to === 'submitted' || to === 'in_review' ? literal('COALESCE(waiting_since, now())') : null,
+      waitingSince: to === 'submitted' || to === 'in_review' ? keep('waiting_since') : null,
     },
     { where: { id, status: from }, transaction: t },
   )
@@ -84,12 +87,11 @@ export async function setAssignee(id: string, assigneeId: string | null, expecte
 export async function touchAfterMessage(id: string, by: 'team' | 'listener', t: Transaction) {
   const Case = models().Case
   if (by === 'team') {
-    await Case.update({ lastActivityAt: dbNow(), waitingSince: null, firstResponseAt: literal('COALESCE(first_response_at, now())') }, { where: { id }, transaction: t })
+    await Case.update({ lastActivityAt: dbNow(), waitingSince: null, firstResponseAt: keep('first_response_at') }, { where: { id }, transaction: t })
   } else {
-    await Case.update(
-      { lastActivityAt: dbNow(), waitingSince: literal(`CASE WHEN status IN ('submitted', 'in_review') THEN COALESCE(waiting_since, now()) ELSE waiting_since END`) },
-      { where: { id }, transaction: t },
-    )
+    await Case.update({ lastActivityAt: dbNow() }, { where: { id }, transaction: t })
+    // the wait for the team starts with the listener's message only while the case is the team's to answer
+    await Case.update({ waitingSince: dbNow() }, { where: { id, status: ['submitted', 'in_review'], waitingSince: null }, transaction: t })
   }
 }
 

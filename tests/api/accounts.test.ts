@@ -9,6 +9,7 @@ import { passwordResetsSettled } from '../../server/services/passwords'
 import { makeUser, uniqueEmail, type Client } from '../helpers/api'
 import { connectSocket, emitAck, sessionFor } from '../helpers/sockets'
 import { openCase } from '../helpers/cases'
+import { models, minutesAgo } from '../helpers/rows'
 
 let server: RunningServer
 beforeAll(async () => {
@@ -191,7 +192,7 @@ describe('password reset by e-mail', () => {
     }
     const [first, second] = (await outbox(u.email, 'password-reset')).map((m) => tokenIn(m.text)!)
     await (await signedOut()).post('/api/auth/password-reset', { token: first, password: 'meadow-copper-anvil-31' }).expect(410)
-    await db().query("UPDATE password_reset_tokens SET expires_at = now() - interval '1 second' WHERE user_id = $1 AND spent_at IS NULL", { bind: [u.id] })
+    await models().PasswordResetToken.update({ expiresAt: minutesAgo(1 / 60) }, { where: { userId: u.id, spentAt: null } })
     await (await signedOut()).post('/api/auth/password-reset', { token: second, password: 'meadow-copper-anvil-31' }).expect(410)
     await (await signedOut()).post('/api/auth/password-reset', { token: 'x'.repeat(43), password: 'meadow-copper-anvil-31' }).expect(410)
     expect(await canSignIn(u.email, u.password)).toBe(200)
