@@ -37,7 +37,7 @@ export function querySites(file: string, source: string): Site[] {
       if (code[k] !== '(') continue
       let why: string | null = null
       for (let j = i - 1; j >= 0 && /^\s*\/\//.test(lines[j]); j--) {
-        const r = /\/\/\s*raw SQL:\s*(.*)$/.exec(lines[j])
+        const r = /\/\/\s*raw SQL:\s*(.*)$/i.exec(lines[j])
         if (r && r[1].trim()) why = r[1].trim()
       }
       sites.push({ file, line: i + 1, text: text.trim(), why })
