@@ -101,6 +101,14 @@ export function named(name: RouteName, query?: LocationQueryRaw): RouteLocationR
 
 type NamedRoute = RouteRecordRaw & { name: RouteName }
 
+/** A page whose first screen draws a chart: the charts' chunk is fetched beside the page's, not after it mounts. */
+function withCharts<T>(page: () => Promise<T>): () => Promise<T> {
+  return () => {
+    void import('../plugins/chart').then((c) => c.loadCharts()).catch(() => {})
+    return page()
+  }
+}
+
 /** '/' renders nothing: the guard in ./index.ts sends each visitor on to their role's home. */
 export function buildRoutes(): NamedRoute[] {
   return [
@@ -132,7 +140,7 @@ export function buildRoutes(): NamedRoute[] {
     {
       path: '/cases/:id',
       name: 'case',
-      component: () => import('../pages/CasePage.vue'),
+      component: withCharts(() => import('../pages/CasePage.vue')),
       meta: { title: 'Case', roles: ['listener'] },
     },
     {
@@ -156,7 +164,7 @@ export function buildRoutes(): NamedRoute[] {
     {
       path: '/dashboard',
       name: 'dashboard',
-      component: () => import('../pages/DashboardPage.vue'),
+      component: withCharts(() => import('../pages/DashboardPage.vue')),
       meta: { title: 'Dashboard', roles: ['supervisor'], nav: { label: 'Dashboard', icon: mdiChartBoxOutline } },
     },
     {
@@ -168,7 +176,7 @@ export function buildRoutes(): NamedRoute[] {
     {
       path: '/desk/cases/:id',
       name: 'case-workspace',
-      component: () => import('../pages/CaseWorkspacePage.vue'),
+      component: withCharts(() => import('../pages/CaseWorkspacePage.vue')),
       meta: { title: 'Case', roles: ['advisor', 'supervisor'] },
     },
     {

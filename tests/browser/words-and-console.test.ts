@@ -1,23 +1,13 @@
-import { afterAll, beforeAll, describe, expect, it } from 'vitest'
-import type { Browser, Page } from 'playwright-core'
-import { launchBrowser, signInAs, startProduct } from '../helpers/browser'
+import { describe, expect, it } from 'vitest'
+import type { Page } from 'playwright-core'
+import { signInAs, useProduct } from '../helpers/browser'
 import { makeUser } from '../helpers/api'
 import { createRoom } from '../../server/services/rooms'
 import { createCase, updateCase } from '../../server/services/cases'
 import { demoRooms } from '../../server/seed/rooms'
 import { roomSchema } from '../../shared/schemas/room'
-import type { RunningServer } from '../../server/server'
 
-let server: RunningServer
-let browser: Browser
-beforeAll(async () => {
-  server = await startProduct()
-  browser = await launchBrowser()
-}, 120_000)
-afterAll(async () => {
-  await browser?.close()
-  await server?.close()
-})
+const app = useProduct({ timeout: 120_000 })
 
 describe('a case description is read as markdown, through the one shared renderer', () => {
   it('the listener and the advisor see bold text, never the asterisks, and typed HTML stays text', async () => {
@@ -31,10 +21,10 @@ describe('a case description is read as markdown, through the one shared rendere
     await updateCase(listener, c.id, { status: 'submitted', fromStatus: 'draft' })
 
     for (const [who, path] of [[listener, `/cases/${c.id}`], [advisor, `/desk/cases/${c.id}`]] as const) {
-      const context = await browser.newContext({ viewport: { width: 1280, height: 900 } })
-      const page = await signInAs(context, server.url, who.email, who.password)
+      const context = await app.browser.newContext({ viewport: { width: 1280, height: 900 } })
+      const page = await signInAs(context, app.server.url, who.email, who.password)
       await page.waitForURL((u) => !u.pathname.startsWith('/sign-in'))
-      await page.goto(`${server.url}${path}`, { waitUntil: 'networkidle' })
+      await page.goto(`${app.server.url}${path}`, { waitUntil: 'networkidle' })
       const box = page.getByTestId('case-description-text').first()
       await box.waitFor()
       expect(await box.locator('strong').first().textContent()).toBe('booms')
@@ -54,7 +44,7 @@ function watch(page: Page): string[] {
   page.on('console', (m) => m.type() === 'error' && seen.push(`console: ${m.text()}`))
   page.on('pageerror', (e) => seen.push(`pageerror: ${e.message}`))
   page.on('response', (r) => {
-    if (r.status() >= 400 && r.url().startsWith(server.url)) seen.push(`${r.status()} ${r.request().method()} ${new URL(r.url()).pathname}`)
+    if (r.status() >= 400 && r.url().startsWith(app.server.url)) seen.push(`${r.status()} ${r.request().method()} ${new URL(r.url()).pathname}`)
   })
   page.on('requestfailed', (r) => seen.push(`failed: ${r.url()}`))
   return seen
@@ -62,16 +52,16 @@ function watch(page: Page): string[] {
 
 describe('a signed-out visitor', () => {
   it('opens the sign-in and sign-up pages with no failing request and no console error', async () => {
-    const context = await browser.newContext({ viewport: { width: 1280, height: 900 } })
+    const context = await app.browser.newContext({ viewport: { width: 1280, height: 900 } })
     const page = await context.newPage()
     page.setDefaultTimeout(45_000)
     const seen = watch(page)
     for (const path of ['/', '/sign-in', '/sign-up']) {
-      await page.goto(`${server.url}${path}`, { waitUntil: 'networkidle' })
+      await page.goto(`${app.server.url}${path}`, { waitUntil: 'networkidle' })
     }
     await page.getByTestId('signin-email').or(page.locator('input[type=email]')).first().waitFor()
     // moving between the two forms inside the app, as a visitor does
-    await page.goto(`${server.url}/sign-in`, { waitUntil: 'networkidle' })
+    await page.goto(`${app.server.url}/sign-in`, { waitUntil: 'networkidle' })
     await page.getByTestId('signin-email').waitFor()
     expect(seen).toEqual([])
     await context.close()
