@@ -6,6 +6,8 @@ import { startServer, type RunningServer } from '../../server/server'
 import { freePort } from '../../server/dev/cluster'
 import type { FakeSmtp } from '../../server/mail/fake-smtp'
 
+export { waitFor } from './wait'
+
 /** Debian's chromium, started headless with the flags this machine needs (no background networking). */
 export async function launchBrowser(): Promise<Browser> {
   return chromium.launch({
@@ -75,16 +77,6 @@ export function useProduct(opts: { fakeSmtp?: boolean; before?: () => Promise<un
   return product
 }
 
-/** Polls `fn` every 300 ms until it gives a value, or fails after `ms` naming `what`. */
-export async function waitFor<T>(what: string, fn: () => Promise<T | undefined | null | false>, ms = 30_000): Promise<T> {
-  const until = Date.now() + ms
-  for (;;) {
-    const v = await fn()
-    if (v) return v
-    if (Date.now() > until) throw new Error(`timed out waiting for ${what}`)
-    await new Promise((r) => setTimeout(r, 300))
-  }
-}
 
 /** Every console error and uncaught page error the page shows from now on. */
 export function consoleErrors(page: Page): string[] {
