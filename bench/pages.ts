@@ -73,6 +73,10 @@ async function measureOnce(browser: Browser, state: Awaited<ReturnType<BrowserCo
     await context.addInitScript(observe)
     const page = await context.newPage()
     page.setDefaultTimeout(30_000)
+    // The renderer's main-thread work for the load (Chrome DevTools Protocol, Performance domain): less
+    // sensitive than wall-clock time to other work on a shared machine, so two builds compare fairly.
+    const cdp = await context.newCDPSession(page)
+    await cdp.send('Performance.enable')
     let inflight = 0
     let lastChange = Date.now()
     let requests = 0
@@ -121,7 +125,9 @@ async function measureOnce(browser: Browser, state: Awaited<ReturnType<BrowserCo
     })
     if (process.env.PAGES_DEBUG) console.error(`[bench] ${p.name}: ready ${readyAt.toFixed(0)}, last long task ${marks.longTaskEnd.toFixed(0)}\n  ${marks.list.join('\n  ')}`)
     const tti = Math.max(readyAt, marks.longTaskEnd, marks.lastAnswer)
-    return { tti, readyAt, requests, kB: marks.bytes / 1024 }
+    const { metrics } = (await cdp.send('Performance.getMetrics')) as { metrics: { name: string; value: number }[] }
+    const metric = (n: string) => (metrics.find((m) => m.name === n)?.value ?? NaN) * 1000
+    return { tti, readyAt, requests, kB: marks.bytes / 1024, taskMs: metric('TaskDuration'), scriptMs: metric('ScriptDuration') }
   } finally {
     await context.close()
   }
@@ -139,10 +145,12 @@ export async function run(): Promise<Figure[]> {
   await seedDemo()
   const { startServer } = await import('../server/server')
   const server = await startServer({ port: 0, clientDir: resolve('dist'), background: true })
-  // PAGES_BASELINE_DIST=/path/to/another/dist: the same pages served from another build (say, main's),
-  // measured in turn with this one, run for run, so a busy machine slows both alike.
-  const baselineDir = process.env.PAGES_BASELINE_DIST
-  const baseline = baselineDir ? await startServer({ port: 0, clientDir: resolve(baselineDir), background: false }) : null
+  // PAGES_BASELINE_DIST=/path/to/another/dist[,/another]: the same pages served from other builds (say,
+  // main's), measured in turn with this one, run for run, so a busy machine slows all alike.
+  const baselines = []
+  for (const dir of process.env.PAGES_BASELINE_DIST?.split(',').filter(Boolean) ?? []) {
+    baselines.push({ dir, server: await startServer({ port: 0, clientDir: resolve(dir), background: false }) })
+  }
   await waitForAnalyses()
   const { caseId, roomId } = await ids()
   const { launchBrowser } = await import('../tests/helpers/browser')
@@ -174,18 +182,21 @@ export async function run(): Promise<Figure[]> {
     const med = (xs: number[]) => percentile(xs, 50)
     for (const p of pages) {
       const runs = []
-      const before = []
+      const before = baselines.map(() => [] as Awaited<ReturnType<typeof measureOnce>>[])
       for (let i = 0; i < RUNS; i++) {
         runs.push(await measureOnce(browser, states.get(p.who)!, server.url, p))
-        if (baseline) before.push(await measureOnce(browser, states.get(p.who)!, baseline.url, p))
+        for (const [j, b] of baselines.entries()) before[j].push(await measureOnce(browser, states.get(p.who)!, b.server.url, p))
       }
-      console.error(`[bench] pages: ${p.name}: ${runs.map((r) => r.tti.toFixed(0)).join(', ')} ms${baseline ? `; baseline ${before.map((r) => r.tti.toFixed(0)).join(', ')} ms` : ''}`)
-      if (baseline) {
-        figures.push({ name: `${p.name}: BASELINE build, time to interactive, median`, value: med(before.map((r) => r.tti)), unit: 'ms' })
-        figures.push({ name: `${p.name}: BASELINE build, requests to our server`, value: med(before.map((r) => r.requests)), unit: 'count' })
+      console.error(`[bench] pages: ${p.name}: ${runs.map((r) => r.tti.toFixed(0)).join(', ')} ms${baselines.map((b, j) => `; ${b.dir} ${before[j].map((r) => r.tti.toFixed(0)).join(', ')} ms`).join('')}`)
+      for (const [j, b] of baselines.entries()) {
+        figures.push({ name: `${p.name}: BASELINE ${b.dir}, time to interactive, median`, value: med(before[j].map((r) => r.tti)), unit: 'ms' })
+        figures.push({ name: `${p.name}: BASELINE ${b.dir}, main-thread work`, value: med(before[j].map((r) => r.taskMs)), unit: 'ms' })
+        figures.push({ name: `${p.name}: BASELINE ${b.dir}, requests to our server`, value: med(before[j].map((r) => r.requests)), unit: 'count' })
       }
       figures.push({ name: `${p.name}: time to interactive, median of ${RUNS} cold loads`, value: med(runs.map((r) => r.tti)), unit: 'ms', target: TARGET })
       figures.push({ name: `${p.name}: ready element visible, median`, value: med(runs.map((r) => r.readyAt)), unit: 'ms' })
+      figures.push({ name: `${p.name}: main-thread work (all tasks)`, value: med(runs.map((r) => r.taskMs)), unit: 'ms' })
+      figures.push({ name: `${p.name}: main-thread script`, value: med(runs.map((r) => r.scriptMs)), unit: 'ms' })
       figures.push({ name: `${p.name}: requests to our server`, value: med(runs.map((r) => r.requests)), unit: 'count' })
       figures.push({ name: `${p.name}: bytes transferred`, value: med(runs.map((r) => r.kB)), unit: 'kB' })
     }
