@@ -12,19 +12,16 @@ export default defineConfig({
     chunkSizeWarningLimit: 2000,
     rolldownOptions: {
       output: {
-        // A few larger files instead of one per shared set of modules: a cold page load fetched 45–80
-        // files over HTTP/1.1's six connections per host, and the queueing cost more than the bytes
-        // (bench/pages.ts). Vue, the router, Pinia, zod and the Vuetify components the app uses (tree-shaken
-        // by vite-plugin-vuetify) are needed by every page; the charts only by the pages that draw one;
-        // the app's own code shared by two or more pages goes in one file, each page's own code stays in its chunk.
+        // ECharts and its Vue wrapper in a chunk of their own, fetched by the first chart (src/plugins/chart.ts)
+        // or beside a page that draws one on its first screen (withCharts in src/router/routes.ts), never by
+        // the other pages. Grouping Vuetify and the app's shared code into a few large files as well cut a cold
+        // page's requests from ~65 to ~25 but made the browser run more script on every page (bench/pages.ts,
+        // main-thread work), so the rest keeps Rolldown's split by which pages use each module.
         codeSplitting: {
-          // Each group takes its own modules only (not everything they import), so Vue stays in 'framework'.
+          // The group takes its own modules only (not everything they import), so Vue stays out of 'charts'.
           includeDependenciesRecursively: false,
           groups: [
             { name: 'charts', test: /node_modules[\\/](echarts|zrender|vue-echarts|tslib)[\\/]|src[\\/]plugins[\\/]echarts\.ts$/, priority: 30 },
-            { name: 'live', test: /node_modules[\\/](socket\.io-client|socket\.io-parser|engine\.io-client|engine\.io-parser|@socket\.io)[\\/]/, priority: 25 },
-            { name: 'framework', test: /node_modules[\\/](vue|@vue|vue-router|pinia|vuetify|@vuetify|@mdi|zod)[\\/]/, priority: 20 },
-            { name: 'common', test: /[\\/](src|shared)[\\/]/, minShareCount: 2, priority: 10 },
           ],
         },
       },
