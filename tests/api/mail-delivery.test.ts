@@ -13,6 +13,7 @@ import { updateUser } from '../../server/data/users'
 import { closeTestApp, signedIn } from '../helpers/api'
 import { openCase } from '../helpers/cases'
 import { models, minutesAgo } from '../helpers/rows'
+import { waitFor as poll } from '../helpers/wait'
 
 const REPLY_DOMAIN = 'reply.delivery.roomwright.test'
 let fake: FakeSmtp | undefined
@@ -199,15 +200,7 @@ describe('with pg-boss workers running', () => {
    */
   const first = (jobId: string | null) => db().query('UPDATE pgboss.job SET priority = 100 WHERE id = $1', { bind: [jobId] })
 
-  const waitFor = async <T>(what: string, fn: () => Promise<T | undefined | false>, ms = 20_000): Promise<T> => {
-    const until = Date.now() + ms
-    for (;;) {
-      const v = await fn()
-      if (v) return v
-      if (Date.now() > until) throw new Error(`timed out waiting for ${what}`)
-      await new Promise((r) => setTimeout(r, 200))
-    }
-  }
+  const waitFor = <T>(what: string, fn: () => Promise<T | undefined | false>, ms = 20_000) => poll(what, fn, ms, 200)
 
   it('a committed e-mail is delivered by the job, once', async () => {
     const f = await caseFixture()

@@ -8,6 +8,7 @@ import { analyseRoom, computeAndStoreTriage, triageScore } from '../../services/
 import { roomSchema, type Room } from '../../../shared/schemas/room'
 import { DEMO_PASSWORD } from '../people'
 import { demoRooms } from '../rooms'
+import { mulberry32 } from '../../../shared/prng'
 
 /**
  * Twelve weeks of invented history for the supervisor's dashboard: a few hundred cases with the
@@ -22,16 +23,7 @@ export async function seed(): Promise<void> {
 const H = 3_600_000
 
 /** Small deterministic generator (mulberry32), so every demo database gets the same story. */
-export function prng(seed: number) {
-  let a = seed >>> 0
-  return () => {
-    a = (a + 0x6d2b79f5) >>> 0
-    let t = a
-    t = Math.imul(t ^ (t >>> 15), t | 1)
-    t ^= t + Math.imul(t ^ (t >>> 7), t | 61)
-    return ((t ^ (t >>> 14)) >>> 0) / 4294967296
-  }
-}
+export const prng = mulberry32
 
 const firstNames = ['Ada', 'Bastian', 'Cleo', 'Dario', 'Elin', 'Farid', 'Greta', 'Hugo', 'Ilse', 'Jaro', 'Kaia', 'Lorcan', 'Mira', 'Nils', 'Orla', 'Pavel', 'Quinn', 'Rosa', 'Soren', 'Tilde', 'Umar', 'Vera', 'Wim', 'Xenia', 'Yusuf', 'Zora']
 const lastNames = ['Ambrose', 'Brightwater', 'Castellane', 'Dunmore', 'Eskildsen', 'Ferreira-Holm', 'Galloway', 'Hartigan', 'Iversen', 'Jablonski', 'Kessler', 'Lindqvist-Moe', 'Marchetti', 'Nakagawa', 'Oduya', 'Petrakis', 'Quist', 'Rautio', 'Szabo', 'Thorne']

@@ -1,23 +1,14 @@
 import { randomUUID } from 'node:crypto'
 import { models } from '../../db/models'
-import { findUserByEmail, toPublicUser } from '../../data/users'
 import { findRoom } from '../../data/rooms'
-import { createRoom } from '../../services/rooms'
-import { createCase, updateCase } from '../../services/cases'
 import { postMessage } from '../../services/messages'
 import { createPlan, sendPlan } from '../../services/plans'
 import { addCaseFile } from '../../services/files'
 import { storage } from '../../storage'
-import { roomSchema } from '../../../shared/schemas/room'
 import { demoRooms } from '../rooms'
 import { demoPlanBody } from '../demo-plan'
 import { syntheticImpulseResponse } from '../synthetic-measurement'
-
-async function person(email: string) {
-  const u = await findUserByEmail(email)
-  if (!u) throw new Error(`demo person ${email} is missing`)
-  return toPublicUser(u)
-}
+import { demoPerson, playCase } from '../case-script'
 
 /**
  * The demo listeners' "plan sent" cases get the plan that was sent: Felix's garden studio (sent in
@@ -26,10 +17,10 @@ async function person(email: string) {
  * that led there. Written through the same services people use.
  */
 export async function seed(): Promise<void> {
-  const maren = await person('listener@roomwright.test')
-  const felix = await person('felix.aduya@roomwright.test')
-  const teodor = await person('advisor@roomwright.test')
-  const priya = await person('priya.halvorsen@roomwright.test')
+  const maren = await demoPerson('listener@roomwright.test')
+  const felix = await demoPerson('felix.aduya@roomwright.test')
+  const teodor = await demoPerson('advisor@roomwright.test')
+  const priya = await demoPerson('priya.halvorsen@roomwright.test')
 
   const { Case, Room } = models()
   const sent = await Case.findAll({
@@ -45,17 +36,21 @@ export async function seed(): Promise<void> {
 
   // Maren's box-room studio: submitted, claimed by Priya, one question and answer, measurements, plan sent.
   if (await Room.count({ where: { ownerId: maren.id, name: demoRooms.smallStudio.name } })) return
-  const room = await createRoom(maren, roomSchema.parse(demoRooms.smallStudio))
-  const c = await createCase(maren, {
-    roomId: room.id, title: 'My mixes sound thin everywhere else',
-    description: 'Mixes made in the **box room** sound full here and thin in the car and on headphones. The monitors have rear ports and stand about 30 cm from the wall behind the desk.',
-    answers: { use: 'Mixing my own songs', seat: 'The desk chair', bothers: 'Bass that does not translate', budget: '250-1000', constraints: 'Rented: freestanding treatment only' },
+  const { room, case: c } = await playCase({
+    listener: maren.email, room: 'smallStudio',
+    case: {
+      title: 'My mixes sound thin everywhere else',
+      description: 'Mixes made in the **box room** sound full here and thin in the car and on headphones. The monitors have rear ports and stand about 30 cm from the wall behind the desk.',
+      answers: { use: 'Mixing my own songs', seat: 'The desk chair', bothers: 'Bass that does not translate', budget: '250-1000', constraints: 'Rented: freestanding treatment only' },
+    },
+    steps: [
+      { by: maren.email, update: { status: 'submitted', fromStatus: 'draft' } },
+      { by: priya.email, update: { assigneeId: 'self' } },
+      { by: priya.email, update: { status: 'in_review', fromStatus: 'submitted' } },
+      { by: priya.email, message: { body: 'Internal: first length and width modes at 52 and 61 Hz, both strong at the chair; rear ports 0.45 m from the front wall.', internal: true } },
+      { by: priya.email, message: { body: 'Hello Maren, in a room this small the first bass modes pile up just where you sit, so the bass sounds fuller here than anywhere else. Could you measure each monitor on its own from the chair? Please keep the level moderate.', ask: true } },
+    ],
   })
-  await updateCase(maren, c.id, { status: 'submitted', fromStatus: 'draft' })
-  await updateCase(priya, c.id, { assigneeId: priya.id })
-  await updateCase(priya, c.id, { status: 'in_review', fromStatus: 'submitted' })
-  await postMessage(priya, c.id, { body: 'Internal: first length and width modes at 52 and 61 Hz, both strong at the chair; rear ports 0.45 m from the front wall.', internal: true })
-  await postMessage(priya, c.id, { body: 'Hello Maren, in a room this small the first bass modes pile up just where you sit, so the bass sounds fuller here than anywhere else. Could you measure each monitor on its own from the chair? Please keep the level moderate.', ask: true })
   const fileIds: string[] = []
   for (const [i, label] of ['L', 'R'].entries()) {
     const bytes = syntheticImpulseResponse(room.room, label, { seed: 2000 + i })
