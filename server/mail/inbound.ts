@@ -1,8 +1,7 @@
 import { timingSafeEqual } from 'node:crypto'
 import { JSDOM } from 'jsdom'
-import { QueryTypes } from 'sequelize'
 import { config } from '../config'
-import { db } from '../db/sequelize'
+import { models } from '../db/models'
 import { AppError } from '../errors'
 import { log } from '../lib/log'
 import { receiveEmailReply } from '../services/messages'
@@ -139,10 +138,12 @@ export function htmlToReplyText(html: string): string {
 // ---------------------------------------------------------------- handling
 
 async function logInbound(via: 'smtp' | 'webhook', mail: InboundEmail, status: 'accepted' | 'rejected', reason: string | null, caseId: string | null) {
-  await db().query(
-    'INSERT INTO inbound_email_log (via, status, reason, to_address, from_address, subject, case_id) VALUES ($1, $2, $3, $4, $5, $6, $7)',
-    { bind: [via, status, reason, (Array.isArray(mail.to) ? mail.to.join(', ') : String(mail.to ?? '')).slice(0, 2000), String(mail.from ?? '').slice(0, 500), (mail.subject ?? '').slice(0, 500), caseId] },
-  )
+  await models().InboundEmailLog.create({
+    via, status, reason, caseId,
+    toAddress: (Array.isArray(mail.to) ? mail.to.join(', ') : String(mail.to ?? '')).slice(0, 2000),
+    fromAddress: String(mail.from ?? '').slice(0, 500),
+    subject: (mail.subject ?? '').slice(0, 500),
+  })
   if (status === 'rejected') log.warn('inbound e-mail rejected', { via, reason, from: mail.from })
 }
 
@@ -193,13 +194,14 @@ export async function handleInboundEmail(mail: InboundEmail, opts: { via?: 'smtp
 
   const token = extractReplyToken(mail.to)
   if (!token) return reject('no_reply_address')
-  const [c] = await db().query<{ id: string; reply_token: string; listener_id: string; listener_email: string; listener_active: boolean }>(
-    'SELECT c.id, c.reply_token, c.listener_id, u.email AS listener_email, u.active AS listener_active FROM cases c JOIN users u ON u.id = c.listener_id WHERE c.reply_token = $1',
-    { bind: [token], type: QueryTypes.SELECT },
-  )
-  if (!c || !sameToken(c.reply_token, token)) return reject('unknown_token')
+  const c = await models().Case.findOne({
+    attributes: ['id', 'replyToken', 'listenerId'],
+    where: { replyToken: token },
+    include: [{ association: 'listener', attributes: ['email', 'active'], required: true }],
+  })
+  if (!c || !sameToken(c.replyToken, token)) return reject('unknown_token')
   const sender = parseAddress(mail.from ?? '')
-  if (!sender || sender !== c.listener_email.toLowerCase()) {
+  if (!sender || sender !== c.listener!.email.toLowerCase()) {
     await holdForTeam(c.id, mail, sender)
     return reject('sender_mismatch', c.id)
   }
@@ -208,7 +210,7 @@ export async function handleInboundEmail(mail: InboundEmail, opts: { via?: 'smtp
     return reject('sender_unverified', c.id)
   }
   // a switched-off account may not write through the web, so not by e-mail either
-  if (!c.listener_active) return reject('listener_inactive', c.id)
+  if (!c.listener!.active) return reject('listener_inactive', c.id)
   if (mail.autoSubmitted && mail.autoSubmitted.trim().toLowerCase() !== 'no') return reject('auto_reply', c.id)
 
   const source = mail.text?.trim() ? mail.text : mail.html ? htmlToReplyText(mail.html) : ''
@@ -219,7 +221,7 @@ export async function handleInboundEmail(mail: InboundEmail, opts: { via?: 'smtp
 
   let appended: unknown
   try {
-    appended = await append({ caseId: c.id, userId: c.listener_id, body })
+    appended = await append({ caseId: c.id, userId: c.listenerId, body })
   } catch (e) {
     if (e instanceof AppError && e.status < 500) return reject(`case_${e.code}`.slice(0, 40) as InboundRejection, c.id)
     throw e

@@ -27,6 +27,8 @@ export function useOpenCase(
     moved?: Partial<Record<CaseStatus, string>>
     /** the listener writes replies only: no internal notes, no questions */
     repliesOnly?: boolean
+    /** the case is known to be sent (the workspace): its triage is asked for at once, beside it */
+    sent?: boolean
     /** also run when the page opens (another) case */
     onOpen?: (id: string) => void
   },
@@ -35,7 +37,7 @@ export function useOpenCase(
   watch(
     caseId,
     (id) => {
-      void cases.open(id)
+      void cases.open(id, { sent: words.sent })
       words.onOpen?.(id)
     },
     { immediate: true },
