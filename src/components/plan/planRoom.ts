@@ -1,7 +1,7 @@
 import { applyPlan } from '../../../shared/plan'
 import type { PlanBody } from '../../../shared/schemas/plan'
 import type { Room } from '../../../shared/schemas/room'
-import type { RoomPlanRoom } from '../room/RoomPlan.vue'
+import type { RoomPlanRoom } from '../room/planDrawing'
 
 /** The room as the plan leaves it, in the shape the room plan drawing takes (existing treatments first). */
 export function roomAfterPlan(room: Room, body: PlanBody): RoomPlanRoom {
