@@ -192,3 +192,244 @@ describe.each([
     expect(problems.join('\n'), 'axe-core violations').toBe('')
   }, 900_000)
 })
+
+/** What has focus, in words, for failure messages. */
+const focused = (page: Page) =>
+  page.evaluate(() => {
+    const a = document.activeElement as HTMLElement | null
+    if (!a || a === document.body) return 'nothing (the page body)'
+    const id = a.closest('[data-testid]')?.getAttribute('data-testid')
+    return `<${a.tagName.toLowerCase()}${a.getAttribute('role') ? ` role=${a.getAttribute('role')}` : ''}> "${(a.getAttribute('aria-label') ?? a.textContent ?? '').trim().slice(0, 60)}" in [${id ?? ''}]`
+  })
+
+const focusMatches = (page: Page, selector: string) => page.evaluate((s) => !!document.activeElement?.matches(s), selector)
+
+/** Presses Tab (or Shift+Tab) until the focused element matches `selector`; fails after `max` presses. */
+async function tabTo(page: Page, selector: string, max = 150, key: 'Tab' | 'Shift+Tab' = 'Tab'): Promise<number> {
+  for (let i = 1; i <= max; i++) {
+    await page.keyboard.press(key)
+    if (await focusMatches(page, selector)) return i
+  }
+  throw new Error(`${max} presses of ${key} never reached ${selector}; focus is on ${await focused(page)}`)
+}
+
+describe('the main flows work with the keyboard alone', () => {
+  it('signing in: the e-mail field has focus, Tab goes to the password, Enter signs in', async () => {
+    const context = await browser.newContext({ viewport: DESKTOP })
+    const page = await context.newPage()
+    await page.goto(`${server.url}/sign-in`, { waitUntil: 'networkidle' })
+    expect(await focusMatches(page, '[data-testid="signin-email"] input'), `focus is on ${await focused(page)}`).toBe(true)
+    await page.keyboard.type(DEMO.listener)
+    await page.keyboard.press('Tab')
+    expect(await focusMatches(page, '[data-testid="signin-password"] input'), `focus is on ${await focused(page)}`).toBe(true)
+    await page.keyboard.type(DEMO_PASSWORD)
+    await page.keyboard.press('Enter')
+    await page.waitForURL(/\/cases$/, { timeout: 45_000 })
+    await context.close()
+  })
+
+  it('a skip link comes first and moves focus past the navigation to the page', async () => {
+    const { context, page } = await contextFor('listener', DESKTOP)
+    await open(page, '/cases')
+    await page.keyboard.press('Tab')
+    expect(await focusMatches(page, '[data-testid="skip-link"]'), `focus is on ${await focused(page)}`).toBe(true)
+    const box = await page.getByTestId('skip-link').boundingBox()
+    expect(box && box.y >= 0 && box.height > 10, 'the focused skip link is on screen').toBe(true)
+    await page.keyboard.press('Enter')
+    expect(await focusMatches(page, 'main#content'), `focus is on ${await focused(page)}`).toBe(true)
+    // the next Tab lands inside the page, not back in the navigation
+    await page.keyboard.press('Tab')
+    expect(await page.evaluate(() => !!document.activeElement?.closest('main')), `focus is on ${await focused(page)}`).toBe(true)
+    await context.close()
+  })
+
+  it('a listener opens a case and then a room', async () => {
+    const { context, page } = await contextFor('listener', DESKTOP)
+    await open(page, '/cases')
+    // the list of cases is one tab stop (Vuetify's list keyboard model): the arrow keys move within it
+    await tabTo(page, '[data-testid="my-case"]')
+    const wanted = `[data-testid="my-case"][href="/cases/${ids.listenerCase}"]`
+    for (let i = 0; i < 20 && !(await focusMatches(page, wanted)); i++) await page.keyboard.press('ArrowDown')
+    expect(await focusMatches(page, wanted), `focus is on ${await focused(page)}`).toBe(true)
+    await page.keyboard.press('Enter')
+    await page.waitForURL(new RegExp(`/cases/${ids.listenerCase}$`))
+    await page.getByTestId('plan-for-listener').waitFor()
+
+    await tabTo(page, '[data-testid="nav-rooms"]', 150, 'Shift+Tab')
+    await page.keyboard.press('Enter')
+    await page.waitForURL(/\/rooms$/)
+    await tabTo(page, '[data-testid="rooms-item"]')
+    await page.keyboard.press('Enter')
+    await page.waitForURL(/\/rooms\/[0-9a-f-]{36}$/)
+    await page.locator('h1').first().waitFor()
+    await context.close()
+  })
+
+  it('an advisor opens the queue, a case, writes a reply and sends it', async () => {
+    const { context, page } = await contextFor('advisor', DESKTOP)
+    await open(page, '/team') // not theirs: sent on to their home, the queue
+    expect(new URL(page.url()).pathname).toBe('/queue')
+    await tabTo(page, '[data-testid="queue-row"] a')
+    // the row shows that it has focus (see the focus tests below), and Enter opens the case
+    const href = await page.evaluate(() => (document.activeElement as HTMLAnchorElement).getAttribute('href'))
+    await page.keyboard.press('Enter')
+    await page.waitForURL((u) => u.pathname === href)
+    await page.getByTestId('composer-input').waitFor()
+    await tabTo(page, '[data-testid="composer-input"] textarea')
+    const reply = `Thanks, by keyboard only ${randomBytes(3).toString('hex')}: try the corner traps first.`
+    await page.keyboard.type(reply)
+    await tabTo(page, '[data-testid="composer-send"]', 20)
+    await page.keyboard.press('Enter')
+    await expect.poll(() => page.getByTestId('thread-message').filter({ hasText: reply }).count(), { timeout: 30_000 }).toBe(1)
+    await context.close()
+  })
+
+  it('a dialog holds focus while open, Escape closes it and focus returns to the button that opened it', async () => {
+    const { context, page } = await contextFor('advisor', DESKTOP)
+    await open(page, '/queue')
+    await tabTo(page, '[data-testid="save-filter"]')
+    await page.keyboard.press('Enter')
+    await page.getByTestId('save-filter-name').waitFor()
+    await expect.poll(() => focusMatches(page, '[data-testid="save-filter-name"] input')).toBe(true)
+    for (const key of ['Tab', 'Tab', 'Tab', 'Tab', 'Tab', 'Shift+Tab', 'Shift+Tab', 'Shift+Tab', 'Shift+Tab', 'Shift+Tab', 'Shift+Tab']) {
+      await page.keyboard.press(key)
+      expect(await page.evaluate(() => !!document.activeElement?.closest('.v-overlay--active')), `after ${key} focus is on ${await focused(page)}`).toBe(true)
+    }
+    await page.keyboard.press('Escape')
+    await page.getByTestId('save-filter-name').waitFor({ state: 'hidden' })
+    await expect.poll(() => focusMatches(page, '[data-testid="save-filter"]')).toBe(true)
+
+    // the account menu: Enter opens it, the arrow keys reach its items, Escape closes it back onto its button
+    await tabTo(page, '[data-testid="nav-user-menu"]', 150, 'Shift+Tab')
+    await page.keyboard.press('Enter')
+    await page.getByTestId('nav-account').waitFor()
+    await page.keyboard.press('ArrowDown')
+    await expect.poll(() => page.evaluate(() => document.activeElement?.getAttribute('role'))).toBe('menuitem')
+    await page.keyboard.press('Escape')
+    await expect.poll(() => focusMatches(page, '[data-testid="nav-user-menu"]')).toBe(true)
+    await context.close()
+  })
+
+  it('a supervisor opens the dashboard and switches a chart to its table with the Space bar', async () => {
+    const { context, page } = await contextFor('supervisor', DESKTOP)
+    await open(page, '/team')
+    await tabTo(page, '[data-testid="nav-dashboard"]', 150, 'Shift+Tab')
+    await page.keyboard.press('Enter')
+    await page.waitForURL(/\/dashboard$/)
+    await page.getByTestId('dashboard-kpis').waitFor()
+    await tabTo(page, '[data-testid="chart-status"] [data-testid="view-table"]')
+    await page.keyboard.press('Space')
+    await expect.poll(() => page.getByTestId('chart-status').locator('table').count()).toBe(1)
+    // focus stays on the toggle, which now offers the chart back
+    expect(await focusMatches(page, '[data-testid="chart-status"] [data-testid="view-chart"]'), `focus is on ${await focused(page)}`).toBe(true)
+    await context.close()
+  })
+})
+
+/**
+ * The focus ring of the focused element, read from computed styles: its width and colour and the
+ * colour behind it. For a field the ring is drawn round the whole field; for a clickable row, on its cells.
+ */
+async function focusRing(page: Page): Promise<{ what: string; width: number; ring: string; behind: string; contrast: number }> {
+  return page.evaluate(() => {
+    const parse = (c: string): [number, number, number, number] | null => {
+      const m = /rgba?\(([\d.]+),?\s*([\d.]+),?\s*([\d.]+)(?:[,/]\s*([\d.]+))?\)/.exec(c)
+      return m ? [Number(m[1]), Number(m[2]), Number(m[3]), m[4] === undefined ? 1 : Number(m[4])] : null
+    }
+    // relative luminance and contrast ratio as WCAG 2.2 defines them (SC 1.4.3, "contrast ratio")
+    const lum = ([r, g, b]: number[]) => {
+      const f = (v: number) => ((v /= 255) <= 0.04045 ? v / 12.92 : ((v + 0.055) / 1.055) ** 2.4)
+      return 0.2126 * f(r) + 0.7152 * f(g) + 0.0722 * f(b)
+    }
+    const ratio = (a: number[], b: number[]) => {
+      const [x, y] = [lum(a), lum(b)].sort((p, q) => q - p)
+      return (x + 0.05) / (y + 0.05)
+    }
+    const a = document.activeElement as HTMLElement
+    const field = a.closest<HTMLElement>('.v-field')
+    const row = a.closest('tr')
+    let target: HTMLElement = field ?? a
+    let width = 0
+    let ring = ''
+    const own = getComputedStyle(target)
+    if (own.outlineStyle !== 'none' && parseFloat(own.outlineWidth) > 0) {
+      width = parseFloat(own.outlineWidth)
+      ring = own.outlineColor
+    } else if (row) {
+      target = row.querySelector('td') ?? row
+      const shadow = getComputedStyle(target).boxShadow
+      const m = /(rgba?\([^)]+\))[^,]*?(\d+(?:\.\d+)?)px\s+0px\s+0px|(rgba?\([^)]+\))\s+0px\s+(\d+(?:\.\d+)?)px/.exec(shadow)
+      if (shadow !== 'none' && m) {
+        ring = m[1] ?? m[3]
+        width = Number(m[2] ?? m[4])
+      }
+    }
+    let behind = 'rgb(255, 255, 255)'
+    for (let el: HTMLElement | null = target.parentElement; el; el = el.parentElement) {
+      const bg = parse(getComputedStyle(el).backgroundColor)
+      if (bg && bg[3] > 0.5) {
+        behind = getComputedStyle(el).backgroundColor
+        break
+      }
+    }
+    const r = parse(ring)
+    const what = `<${a.tagName.toLowerCase()}> [${a.closest('[data-testid]')?.getAttribute('data-testid') ?? ''}]`
+    return { what, width, ring, behind, contrast: r && r[3] > 0.5 ? ratio(r, parse(behind)!) : 0 }
+  })
+}
+
+describe('what has keyboard focus shows a visible ring of sufficient contrast', () => {
+  const expectRing = async (page: Page, kind: string) => {
+    const r = await focusRing(page)
+    expect(r.width, `${kind} ${r.what}: ring width`).toBeGreaterThanOrEqual(2)
+    expect(r.contrast, `${kind} ${r.what}: ring ${r.ring} against ${r.behind}`).toBeGreaterThanOrEqual(3)
+  }
+
+  it('on links and fields of the sign-in page', async () => {
+    const context = await browser.newContext({ viewport: DESKTOP })
+    const page = await context.newPage()
+    await open(page, '/sign-in')
+    await tabTo(page, '[data-testid="signin-email"] input', 10, 'Shift+Tab').catch(() => tabTo(page, '[data-testid="signin-email"] input', 10))
+    await expectRing(page, 'field')
+    await tabTo(page, '[data-testid="signin-forgot"]', 10)
+    await expectRing(page, 'link')
+    await tabTo(page, '[data-testid="signin-submit"]', 10)
+    await expectRing(page, 'button')
+    await context.close()
+  })
+
+  it('on the queue: a button, the search field, a clickable row, the navigation', async () => {
+    const { context, page } = await contextFor('advisor', DESKTOP)
+    await open(page, '/queue')
+    await tabTo(page, '[data-testid="nav-queue"]')
+    await expectRing(page, 'navigation link')
+    await tabTo(page, '[data-testid="queue-search"] input')
+    await expectRing(page, 'field')
+    await tabTo(page, '[data-testid="queue-row"] a')
+    await expectRing(page, 'clickable table row')
+    await tabTo(page, '[data-testid="claim-button"], [data-testid="queue-row"] button')
+    await expectRing(page, 'button')
+    await context.close()
+  })
+
+  it('on the dashboard: the chart toggles and the download buttons', async () => {
+    const { context, page } = await contextFor('supervisor', DESKTOP)
+    await open(page, '/dashboard')
+    await tabTo(page, '[data-testid="view-table"]')
+    await expectRing(page, 'chart toggle')
+    await tabTo(page, '[data-testid="download-csv"]')
+    await expectRing(page, 'button')
+    await context.close()
+  })
+
+  it('in the dark theme too', async () => {
+    const { context, page } = await contextFor('advisor', DESKTOP)
+    await page.emulateMedia({ colorScheme: 'dark' }) // no saved choice: the system's dark preference applies
+    await open(page, '/queue')
+    await tabTo(page, '[data-testid="queue-row"] a')
+    await expectRing(page, 'clickable table row (dark)')
+    await tabTo(page, '[data-testid="claim-button"], [data-testid="queue-row"] button')
+    await expectRing(page, 'button (dark)')
+    await context.close()
+  })
+})
