@@ -12,17 +12,17 @@ export type Migration = { up: (ctx: { context: QueryInterface }) => Promise<void
 
 /**
  * Migrations are numbered files `NNNN-what-it-does.ts` in server/db/migrations, applied in name order.
- * `dir` and `sequelize` are for the schema tests (a copy of earlier migrations, a database of their own).
+ * `sequelize` is for the schema snapshot and its test (a database of their own).
  */
-export function migrator(sequelize: Sequelize = db(), dir = migrationsDir) {
-  const files = readdirSync(dir)
+export function migrator(sequelize: Sequelize = db()) {
+  const files = readdirSync(migrationsDir)
     .filter((f) => /^\d{4}-[a-z0-9-]+\.ts$/.test(f))
     .sort()
   return new Umzug<QueryInterface>({
     migrations: files.map((file) => ({
       name: file.replace(/\.ts$/, ''),
-      up: async ({ context }) => ((await import(pathToFileURL(join(dir, file)).href)) as Migration).up({ context }),
-      down: async ({ context }) => ((await import(pathToFileURL(join(dir, file)).href)) as Migration).down({ context }),
+      up: async ({ context }) => ((await import(pathToFileURL(join(migrationsDir, file)).href)) as Migration).up({ context }),
+      down: async ({ context }) => ((await import(pathToFileURL(join(migrationsDir, file)).href)) as Migration).down({ context }),
     })),
     context: sequelize.getQueryInterface(),
     storage: new SequelizeStorage({ sequelize, tableName: 'schema_migrations' }),

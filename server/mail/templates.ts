@@ -1,10 +1,13 @@
 import { readFileSync } from 'node:fs'
+import { roleLabels } from '../../shared/words/people'
 import { fileURLToPath } from 'node:url'
 import { JSDOM } from 'jsdom'
 import createDOMPurify, { type DOMPurify } from 'dompurify'
 import { renderMarkdown } from '../../shared/markdown'
 import { z } from 'zod'
 import { config } from '../config'
+import { formatDateTime } from '../../shared/words/dates'
+import { caseStatusLabels, statusEmailWords } from '../../shared/words/statuses'
 
 /**
  * E-mail templates: one HTML and one plain-text file per kind in templates/, wrapped in
@@ -119,22 +122,8 @@ function templateFile(file: string): string {
 
 // ---------------------------------------------------------------- per-kind values
 
-const STATUS_WORDS = {
-  submitted: {
-    headline: 'We have your case',
-    explanation: 'an advisor will look at the room and anything you measured, and you will hear from us here and by e-mail.',
-  },
-  closed: {
-    headline: 'Your case is closed',
-    explanation: 'we hope the room sounds better. If something is still not right, reply to this e-mail or reopen the case.',
-  },
-  reopened: {
-    headline: 'Your case is open again',
-    explanation: 'an advisor will pick it up where it was left.',
-  },
-} as const
-
-const ROLE_LABEL = { listener: 'listener', advisor: 'advisor', supervisor: 'supervisor' } as const
+/** E-mails are read away from the screen, in no known zone: times are written in UTC and say so. */
+const utcText = (d: Date) => formatDateTime(d, { timeZone: 'UTC', withZone: true })
 
 function kindValues(kind: EmailKind, v: Record<string, unknown>): { values: Record<string, string>; preheader: string } {
   const s = (k: string) => String(v[k] ?? '')
@@ -148,12 +137,13 @@ function kindValues(kind: EmailKind, v: Record<string, unknown>): { values: Reco
         preheader: excerpt(s('body')),
       }
     case 'status-changed': {
-      const words = STATUS_WORDS[(v.status === 'received' ? 'submitted' : v.status) as keyof typeof STATUS_WORDS]
+      const { status, ...words } = statusEmailWords[(v.status === 'received' ? 'submitted' : v.status) as keyof typeof statusEmailWords]
       const note = s('note').trim()
       return {
         values: {
           ...base,
           ...words,
+          statusLabel: caseStatusLabels[status],
           note,
           noteHtml: note ? `<p style="margin:0 0 16px;padding:8px 12px;background:#f8f4ee;border-radius:4px;">${escapeHtml(note)}</p>` : '',
         },
@@ -166,6 +156,7 @@ function kindValues(kind: EmailKind, v: Record<string, unknown>): { values: Reco
         values: {
           ...base,
           advisorName: s('advisorName') || 'Your advisor',
+          statusLabel: caseStatusLabels.plan_sent,
           summary,
           summaryHtml: summary ? `<div style="margin:0 0 20px;padding:4px 16px;border-left:3px solid #0f4c4f;background:#f8f4ee;">${renderMarkdownSafe(summary)}</div>` : '',
         },
@@ -178,9 +169,9 @@ function kindValues(kind: EmailKind, v: Record<string, unknown>): { values: Reco
         values: {
           ...base,
           inviterName: s('inviterName'),
-          roleLabel: ROLE_LABEL[v.role as keyof typeof ROLE_LABEL],
+          roleLabel: roleLabels[v.role as keyof typeof roleLabels].toLowerCase(),
           setPasswordUrl: s('setPasswordUrl'),
-          expiresText: expires.toUTCString().replace(/:\d\d GMT$/, ' UTC'),
+          expiresText: utcText(expires),
         },
         preheader: 'Choose a password to sign in',
       }
@@ -204,8 +195,6 @@ function kindValues(kind: EmailKind, v: Record<string, unknown>): { values: Reco
       }
   }
 }
-
-const utcText = (d: Date) => d.toUTCString().replace(/:\d\d GMT$/, ' UTC')
 
 function excerpt(md: string, max = 120): string {
   const plain = md.replace(/[#>*_`~[\]()!|-]+/g, ' ').replace(/\s+/g, ' ').trim()

@@ -3,6 +3,7 @@ import type { Surface } from '../../shared/acoustics'
 import { CAUTIONS, FOLLOW_UP_MEASURING, placement, shoppingList, surfaceWords, treatmentTypeNames } from '../../shared/plan'
 import type { PlanRoom } from '../../shared/plan'
 import type { PlanVersion } from '../../shared/schemas/plan'
+import { formatDate } from '../../shared/words/dates'
 
 /**
  * The plan as a PDF the listener can keep: A4, pdfkit's standard Helvetica (text stays searchable),
@@ -94,7 +95,7 @@ export async function renderPlanPdf(input: PlanPdfInput): Promise<Buffer> {
   const stepOf = new Map(pr.order.map((id, i) => [id, i + 1]))
   const changeOf = new Map(pr.changes.map((c) => [c.id, c]))
   const sentWords = plan.sentAt
-    ? `sent ${new Date(plan.sentAt).toISOString().slice(0, 10)}${plan.sentBy ? ` by ${plan.sentBy.name}` : ''}`
+    ? `sent ${formatDate(plan.sentAt, { timeZone: 'UTC' })}${plan.sentBy ? ` by ${plan.sentBy.name}` : ''}`
     : 'draft, not yet sent'
 
   // ---------------------------------------------------------------- page 1: summary and steps

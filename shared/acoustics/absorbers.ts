@@ -63,6 +63,13 @@ function checkLayer(layer: PorousLayer): void {
   }
 }
 
+/** The layer checked, and the air's speed of sound and density at opts.celsius (default 20 °C). */
+function checkLayerAndAir(layer: PorousLayer, opts: { celsius?: number }): { c0: number; rho0: number } {
+  checkLayer(layer)
+  const celsius = opts.celsius ?? 20
+  return { c0: speedOfSound(celsius), rho0: airDensity(celsius) }
+}
+
 /**
  * Normalised surface impedance Zs/(ρ₀c₀) of the layer on a rigid wall, optionally over an air gap:
  * rigid backing Zs = −j·Zc·cot(kc·d); an air gap's impedance −jρ₀c₀·cot(k₀D) is carried through the
@@ -70,11 +77,8 @@ function checkLayer(layer: PorousLayer): void {
  * @see Cox & D'Antonio, Acoustic Absorbers and Diffusers, ch. 2 (transfer matrix, impedance translation)
  */
 export function porousSurfaceImpedance(layer: PorousLayer, hz: number, opts: { celsius?: number } = {}): Complex {
-  checkLayer(layer)
+  const { c0, rho0 } = checkLayerAndAir(layer, opts)
   assertPositive(hz, 'frequency', 'Hz')
-  const celsius = opts.celsius ?? 20
-  const c0 = speedOfSound(celsius)
-  const rho0 = airDensity(celsius)
   return surfaceImpedance(layer, hz, c0, rho0)
 }
 
@@ -107,11 +111,8 @@ function alphaFromImpedance(zs: Complex, cosTheta: number): number {
  * @see Delany & Bazley, Applied Acoustics 3, 1970; Miki, J. Acoust. Soc. Jpn (E) 11(1), 1990
  */
 export function porousAbsorption(layer: PorousLayer, freqsHz: number[], opts: { celsius?: number } = {}): number[] {
-  checkLayer(layer)
+  const { c0, rho0 } = checkLayerAndAir(layer, opts)
   assertFrequencies(freqsHz)
-  const celsius = opts.celsius ?? 20
-  const c0 = speedOfSound(celsius)
-  const rho0 = airDensity(celsius)
   return freqsHz.map((f) => alphaFromImpedance(surfaceImpedance(layer, f, c0, rho0), 1))
 }
 
@@ -123,11 +124,8 @@ export function porousAbsorption(layer: PorousLayer, freqsHz: number[], opts: { 
  * @see Kuttruff, Room Acoustics, ch. 2 (Paris formula, locally reacting surfaces)
  */
 export function porousAbsorptionRandom(layer: PorousLayer, freqsHz: number[], opts: { celsius?: number } = {}): number[] {
-  checkLayer(layer)
+  const { c0, rho0 } = checkLayerAndAir(layer, opts)
   assertFrequencies(freqsHz)
-  const celsius = opts.celsius ?? 20
-  const c0 = speedOfSound(celsius)
-  const rho0 = airDensity(celsius)
   const N = 48
   return freqsHz.map((f) => {
     const zs = surfaceImpedance(layer, f, c0, rho0)

@@ -1,7 +1,7 @@
 import type { Point, RoomBox, Surface } from './types'
 import { SURFACES, distanceToSurface, pointCoords, roomDims, surfaceAxis } from './types'
 import { speedOfSound } from './units'
-import { assertPointInRoom, assertPositive, assertRoom, assertSurface } from './validate'
+import { assertBand, assertPointInRoom, assertPositive, assertRoom, assertSurface } from './validate'
 
 export interface BoundaryNotch {
   surface: Surface
@@ -51,13 +51,9 @@ export function boundaryResponse(
   assertRoom(room)
   assertPointInRoom(room, source, 'source')
   const c = speedOfSound(opts.celsius ?? 20)
-  const fromHz = opts.fromHz ?? 20
-  const toHz = opts.toHz ?? 500
+  const [fromHz, toHz] = assertBand(opts.fromHz ?? 20, opts.toHz ?? 500)
   const ppo = opts.pointsPerOctave ?? 24
-  assertPositive(fromHz, 'fromHz', 'Hz')
-  assertPositive(toHz, 'toHz', 'Hz')
   assertPositive(ppo, 'pointsPerOctave')
-  if (toHz <= fromHz) throw new RangeError(`toHz (${toHz} Hz) must lie above fromHz (${fromHz} Hz)`)
   let surfaces: Surface[]
   if (opts.surfaces) {
     opts.surfaces.forEach((s) => assertSurface(s))

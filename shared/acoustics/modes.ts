@@ -1,7 +1,7 @@
 import type { Point, RoomBox } from './types'
 import { roomDims, roomSurfaceArea, roomVolume } from './types'
 import { speedOfSound } from './units'
-import { assertCelsius, assertFinite, assertPointInRoom, assertPositive, assertRoom } from './validate'
+import { assertBand, assertCelsius, assertFinite, assertPointInRoom, assertPositive, assertRoom } from './validate'
 
 export interface RoomMode {
   /** mode indices along length, width, height */
@@ -11,6 +11,29 @@ export interface RoomMode {
 }
 
 const KINDS = ['axial', 'axial', 'tangential', 'oblique'] as const
+
+/**
+ * @internal Every index triple (nx, ny, nz) of a box with (nx/Lx)² + (ny/Ly)² + (nz/Lz)² ≤ k² (plus a
+ * rounding allowance), (0, 0, 0) included, with that sum s²; the mode is at (c/2)·s (Rayleigh).
+ */
+export function forEachModeIndex(room: RoomBox, k: number, visit: (nx: number, ny: number, nz: number, s2: number) => void): void {
+  const { length: lx, width: ly, height: lz } = room
+  const k2 = k * k * (1 + 1e-12)
+  const nxMax = Math.floor(k * lx + 1e-9)
+  for (let nx = 0; nx <= nxMax; nx++) {
+    const ax = (nx / lx) ** 2
+    const nyMax = Math.floor(Math.sqrt(Math.max(0, k2 - ax)) * ly + 1e-9)
+    for (let ny = 0; ny <= nyMax; ny++) {
+      const axy = ax + (ny / ly) ** 2
+      if (axy > k2) break
+      const nzMax = Math.floor(Math.sqrt(Math.max(0, k2 - axy)) * lz + 1e-9)
+      for (let nz = 0; nz <= nzMax; nz++) {
+        const s2 = axy + (nz / lz) ** 2
+        if (s2 <= k2) visit(nx, ny, nz, s2)
+      }
+    }
+  }
+}
 
 /**
  * Every mode of a rigid rectangular room with 0 < hz ≤ maxHz, ascending by frequency
@@ -24,27 +47,13 @@ export function roomModes(room: RoomBox, opts: { maxHz: number; celsius?: number
   if (opts === null || typeof opts !== 'object') throw new RangeError('roomModes needs opts with maxHz (Hz)')
   assertPositive(opts.maxHz, 'maxHz', 'Hz')
   const c = speedOfSound(opts.celsius ?? 20)
-  const { length: lx, width: ly, height: lz } = room
-  const kMax = (2 * opts.maxHz) / c // √((nx/Lx)² + …) ≤ 2f/c
-  const k2 = kMax * kMax * (1 + 1e-12)
   const modes: RoomMode[] = []
-  const nxMax = Math.floor(kMax * lx + 1e-9)
-  for (let nx = 0; nx <= nxMax; nx++) {
-    const ax = (nx / lx) ** 2
-    const nyMax = Math.floor(Math.sqrt(Math.max(0, k2 - ax)) * ly + 1e-9)
-    for (let ny = 0; ny <= nyMax; ny++) {
-      const axy = ax + (ny / ly) ** 2
-      if (axy > k2) break
-      const nzMax = Math.floor(Math.sqrt(Math.max(0, k2 - axy)) * lz + 1e-9)
-      for (let nz = nx === 0 && ny === 0 ? 1 : 0; nz <= nzMax; nz++) {
-        const s = axy + (nz / lz) ** 2
-        const hz = (c / 2) * Math.sqrt(s)
-        if (hz <= 0 || hz > opts.maxHz) continue
-        const nonZero = (nx > 0 ? 1 : 0) + (ny > 0 ? 1 : 0) + (nz > 0 ? 1 : 0)
-        modes.push({ n: [nx, ny, nz], kind: KINDS[nonZero], hz })
-      }
-    }
-  }
+  forEachModeIndex(room, (2 * opts.maxHz) / c, (nx, ny, nz, s2) => {
+    const hz = (c / 2) * Math.sqrt(s2)
+    if (hz <= 0 || hz > opts.maxHz) return
+    const nonZero = (nx > 0 ? 1 : 0) + (ny > 0 ? 1 : 0) + (nz > 0 ? 1 : 0)
+    modes.push({ n: [nx, ny, nz], kind: KINDS[nonZero], hz })
+  })
   const order = (m: RoomMode) => (m.kind === 'axial' ? 0 : m.kind === 'tangential' ? 1 : 2)
   modes.sort((a, b) => a.hz - b.hz || order(a) - order(b) || a.n[0] - b.n[0] || a.n[1] - b.n[1] || a.n[2] - b.n[2])
   return modes
@@ -75,17 +84,19 @@ export function modePositionClass(pressure: number): 'null' | 'peak' | 'between'
   return a < 0.316 ? 'null' : a > 0.891 ? 'peak' : 'between'
 }
 
+/** The input checked, and what the mode-count formulas take: c, volume V, surface S and total edge length L. */
+function modeCountTerms(room: RoomBox, hz: number, celsius: number): { c: number; v: number; s: number; l: number } {
+  assertRoom(room)
+  assertPositive(hz, 'frequency', 'Hz')
+  return { c: speedOfSound(celsius), v: roomVolume(room), s: roomSurfaceArea(room), l: 4 * (room.length + room.width + room.height) }
+}
+
 /**
  * Asymptotic number of modes with frequency below f.
  * @see Kuttruff, Room Acoustics: N(f) ≈ 4πVf³/(3c³) + πSf²/(4c²) + Lf/(8c), L the total edge length
  */
 export function modeCountEstimate(room: RoomBox, hz: number, celsius = 20): number {
-  assertRoom(room)
-  assertPositive(hz, 'frequency', 'Hz')
-  const c = speedOfSound(celsius)
-  const v = roomVolume(room)
-  const s = roomSurfaceArea(room)
-  const l = 4 * (room.length + room.width + room.height)
+  const { c, v, s, l } = modeCountTerms(room, hz, celsius)
   return (4 * Math.PI * v * hz ** 3) / (3 * c ** 3) + (Math.PI * s * hz ** 2) / (4 * c ** 2) + (l * hz) / (8 * c)
 }
 
@@ -94,12 +105,7 @@ export function modeCountEstimate(room: RoomBox, hz: number, celsius = 20): numb
  * @see Long, Architectural Acoustics 2e, eq. 8.46: dN/df = 4πVf²/c³ + πSf/(2c²) + L/(8c)
  */
 export function modalDensity(room: RoomBox, hz: number, celsius = 20): number {
-  assertRoom(room)
-  assertPositive(hz, 'frequency', 'Hz')
-  const c = speedOfSound(celsius)
-  const v = roomVolume(room)
-  const s = roomSurfaceArea(room)
-  const l = 4 * (room.length + room.width + room.height)
+  const { c, v, s, l } = modeCountTerms(room, hz, celsius)
   return (4 * Math.PI * v * hz ** 2) / c ** 3 + (Math.PI * s * hz) / (2 * c ** 2) + l / (8 * c)
 }
 
@@ -416,11 +422,7 @@ export function buildModalSystem(room: RoomBox, options: ModalResponseOptions = 
   assertRt60Spec(rt60)
   const celsius = options.celsius ?? 20
   assertCelsius(celsius)
-  const fromHz = options.fromHz ?? 15
-  const toHz = options.toHz ?? 300
-  assertPositive(fromHz, 'fromHz', 'Hz')
-  assertPositive(toHz, 'toHz', 'Hz')
-  if (toHz <= fromHz) throw new RangeError(`toHz (${toHz} Hz) must lie above fromHz (${fromHz} Hz)`)
+  const [fromHz, toHz] = assertBand(options.fromHz ?? 15, options.toHz ?? 300)
   const ppo = options.pointsPerOctave ?? 48
   assertPositive(ppo, 'pointsPerOctave')
   const modalMaxHz = options.modalMaxHz ?? 3 * Math.max(toHz, options.spreadToHz ?? toHz)
@@ -428,11 +430,7 @@ export function buildModalSystem(room: RoomBox, options: ModalResponseOptions = 
   const smoothingOctaves = options.smoothingOctaves ?? 1 / 6
   assertFinite(smoothingOctaves, 'smoothingOctaves')
   if (smoothingOctaves < 0) throw new RangeError(`smoothingOctaves must not be negative: got ${smoothingOctaves}`)
-  const spreadFromHz = options.spreadFromHz ?? fromHz
-  const spreadToHz = options.spreadToHz ?? toHz
-  assertPositive(spreadFromHz, 'spreadFromHz', 'Hz')
-  assertPositive(spreadToHz, 'spreadToHz', 'Hz')
-  if (spreadToHz <= spreadFromHz) throw new RangeError(`spreadToHz (${spreadToHz} Hz) must lie above spreadFromHz (${spreadFromHz} Hz)`)
+  const [spreadFromHz, spreadToHz] = assertBand(options.spreadFromHz ?? fromHz, options.spreadToHz ?? toHz, ['spreadFromHz', 'spreadToHz'])
 
   const nPoints = Math.max(2, Math.round(Math.log2(toHz / fromHz) * ppo) + 1)
   const freqsHz = new Float64Array(nPoints)
@@ -529,25 +527,11 @@ export function buildModalSystem(room: RoomBox, options: ModalResponseOptions = 
 /** Mode indices (flattened nx, ny, nz) of every mode with loHz < f ≤ hiHz, in no particular order. */
 function farModes(room: RoomBox, c: number, loHz: number, hiHz: number): Int32Array {
   if (hiHz <= loHz) return new Int32Array(0)
-  const { length: lx, width: ly, height: lz } = room
-  const kHi = (2 * hiHz) / c
-  const kLo2 = ((2 * loHz) / c) ** 2
-  const kHi2 = kHi * kHi * (1 + 1e-12)
+  const kLo2 = ((2 * loHz) / c) ** 2 * (1 + 1e-12)
   const out: number[] = []
-  const nxMax = Math.floor(kHi * lx + 1e-9)
-  for (let nx = 0; nx <= nxMax; nx++) {
-    const ax = (nx / lx) ** 2
-    const nyMax = Math.floor(Math.sqrt(Math.max(0, kHi2 - ax)) * ly + 1e-9)
-    for (let ny = 0; ny <= nyMax; ny++) {
-      const axy = ax + (ny / ly) ** 2
-      const nzMax = Math.floor(Math.sqrt(Math.max(0, kHi2 - axy)) * lz + 1e-9)
-      for (let nz = 0; nz <= nzMax; nz++) {
-        const s2 = axy + (nz / lz) ** 2
-        if (s2 <= kLo2 * (1 + 1e-12) || s2 > kHi2) continue
-        out.push(nx, ny, nz)
-      }
-    }
-  }
+  forEachModeIndex(room, (2 * hiHz) / c, (nx, ny, nz, s2) => {
+    if (s2 > kLo2) out.push(nx, ny, nz)
+  })
   return Int32Array.from(out)
 }
 
@@ -570,28 +554,49 @@ export function sourceWeights(sys: ModalSystem, sources: readonly Point[]): Floa
   return w
 }
 
-/** @internal Power |p|² per frequency for per-mode weights w_m (source shape × receiver shape). */
-export function powerFromWeights(sys: ModalSystem, weights: Float64Array): Float64Array {
-  const F = sys.freqsHz.length
-  const M = sys.modeCount
-  const re = new Float64Array(F)
-  const im = new Float64Array(F)
-  const { hRe, hIm } = sys
-  for (let i = 0; i < M; i++) {
-    const w = weights[i]
+/**
+ * @internal re[f] += Σ_{m < count} w_m·srcRe[m·F + f] (and im likewise): a weighted sum of term-major rows
+ * on an F-point grid. Terms with |w_m| < 1e-12 (nodal planes) are skipped.
+ */
+export function addWeightedRows(weights: ArrayLike<number>, count: number, srcRe: Float64Array, srcIm: Float64Array, F: number, re: Float64Array, im: Float64Array): void {
+  for (let m = 0; m < count; m++) {
+    const w = weights[m]
     if (Math.abs(w) < 1e-12) continue
-    const base = i * F
+    const base = m * F
     for (let f = 0; f < F; f++) {
-      re[f] += w * hRe[base + f]
-      im[f] += w * hIm[base + f]
+      re[f] += w * srcRe[base + f]
+      im[f] += w * srcIm[base + f]
     }
   }
-  if (weights.length >= M + sys.farCount) {
+}
+
+/** @internal out[f] = re[f]² + im[f]² (out may be re). */
+export function complexPower(re: Float64Array, im: Float64Array, out: Float64Array = new Float64Array(re.length)): Float64Array {
+  for (let f = 0; f < re.length; f++) out[f] = re[f] * re[f] + im[f] * im[f]
+  return out
+}
+
+/**
+ * @internal The complex modal sum Σ_m w_m·H_m(f) on the system's grid, into re and im (cleared first): the
+ * exactly summed modes, then the far modes through their series when the weights cover them.
+ */
+export function transferFromWeights(sys: ModalSystem, weights: ArrayLike<number>, re: Float64Array, im: Float64Array): void {
+  re.fill(0)
+  im.fill(0)
+  addWeightedRows(weights, sys.modeCount, sys.hRe, sys.hIm, sys.freqsHz.length, re, im)
+  if (sys.farCount > 0 && weights.length >= sys.modeCount + sys.farCount) {
     const { aRe, aIm } = farSeries(sys, weights, 0, sys.farCount)
     addSeries(sys, aRe, aIm, re, im)
   }
-  for (let f = 0; f < F; f++) re[f] = re[f] * re[f] + im[f] * im[f]
-  return re
+}
+
+/** @internal Power |p|² per frequency for per-mode weights w_m (source shape × receiver shape). */
+export function powerFromWeights(sys: ModalSystem, weights: Float64Array): Float64Array {
+  const F = sys.freqsHz.length
+  const re = new Float64Array(F)
+  const im = new Float64Array(F)
+  transferFromWeights(sys, weights, re, im)
+  return complexPower(re, im, re)
 }
 
 /** @internal Σ_m w_m·c_{m,j} over far modes [from, to) (weights indexed like `n`), per series term. */

@@ -1,5 +1,5 @@
 import type { ModalResponseOptions, ModalSystem } from './modes'
-import { addSeries, buildModalSystem, farSeries, modalPower, sourceWeights, spreadDbOfPower } from './modes'
+import { addSeries, addWeightedRows, buildModalSystem, complexPower, farSeries, modalPower, sourceWeights, spreadDbOfPower } from './modes'
 import type { Point, RoomBox } from './types'
 import { assertPointInRoom, assertPositive, assertRoom } from './validate'
 
@@ -99,17 +99,8 @@ function powerAt(sys: ModalSystem, grp: ReturnType<typeof groupTransfer>, x: num
   const { re, im } = grp
   re.fill(0)
   im.fill(0)
-  for (let g = 0; g < G; g++) {
-    const sh = shape[g]
-    if (Math.abs(sh) < 1e-12) continue
-    const base = g * F
-    for (let f = 0; f < F; f++) {
-      re[f] += sh * cRe[base + f]
-      im[f] += sh * cIm[base + f]
-    }
-  }
-  for (let f = 0; f < F; f++) power[f] = re[f] * re[f] + im[f] * im[f]
-  return power
+  addWeightedRows(shape, G, cRe, cIm, F, re, im)
+  return complexPower(re, im, power)
 }
 
 function linspace(a: number, b: number, n: number): number[] {

@@ -32,6 +32,7 @@ export interface ReflectionOptions {
 
 const AXIS_SURFACES: [Surface, Surface][] = [['front', 'back'], ['left', 'right'], ['floor', 'ceiling']]
 
+/** Checks the common input and returns c, the direct distance and the room and points as coordinate triples. */
 function checkCommon(room: RoomBox, source: Point, receiver: Point, opts: ReflectionOptions) {
   assertRoom(room)
   assertPointInRoom(room, source, 'source')
@@ -39,7 +40,7 @@ function checkCommon(room: RoomBox, source: Point, receiver: Point, opts: Reflec
   if (opts.alpha) for (const [s, a] of Object.entries(opts.alpha)) if (a !== undefined) assertAlpha(a, `absorption coefficient of the ${s}`)
   const direct = distance(source, receiver)
   if (direct === 0) throw new RangeError('source and receiver coincide: the level relative to the direct sound is undefined')
-  return { c: speedOfSound(opts.celsius ?? 20), direct }
+  return { c: speedOfSound(opts.celsius ?? 20), direct, dims: roomDims(room), s: pointCoords(source), r: pointCoords(receiver) }
 }
 
 /** Fold an unfolded coordinate back into 0…L (mirror lattice of the image-source method). */
@@ -106,10 +107,7 @@ const FIRST_ORDER_CELLS: Record<Surface, [number, number, number]> = {
  * @see Allen & Berkley, "Image method for efficiently simulating small-room acoustics", JASA 65(4), 1979
  */
 export function firstReflections(room: RoomBox, source: Point, receiver: Point, opts: ReflectionOptions = {}): Reflection[] {
-  const { c, direct } = checkCommon(room, source, receiver, opts)
-  const dims = roomDims(room)
-  const s = pointCoords(source)
-  const r = pointCoords(receiver)
+  const { c, direct, dims, s, r } = checkCommon(room, source, receiver, opts)
   return SURFACES.map((surface) => {
     const tr = traceImage(dims, s, r, FIRST_ORDER_CELLS[surface])
     return {
@@ -151,10 +149,7 @@ const SECOND_ORDER_CELLS: [number, number, number][] = (() => {
  * @see Allen & Berkley, JASA 65(4), 1979; level = 20·lg(r_direct/r_image) + Σ 10·lg(1 − αᵢ)
  */
 export function secondOrderReflections(room: RoomBox, source: Point, receiver: Point, opts: ReflectionOptions = {}): SecondOrderReflection[] {
-  const { c, direct } = checkCommon(room, source, receiver, opts)
-  const dims = roomDims(room)
-  const s = pointCoords(source)
-  const r = pointCoords(receiver)
+  const { c, direct, dims, s, r } = checkCommon(room, source, receiver, opts)
   return SECOND_ORDER_CELLS.map((cells) => {
     const tr = traceImage(dims, s, r, cells)
     return {

@@ -3,9 +3,9 @@
  * relative level) so that the bass is alike at every seat, by the engine's modal model.
  */
 import type { ModalResponseOptions, ModalSystem } from './modes'
-import { addSeries, buildModalSystem, farSeries, smoothPower, sourceWeights, spreadDbOfPower } from './modes'
+import { buildModalSystem, smoothPower, sourceWeights, spreadDbOfPower, transferFromWeights } from './modes'
 import type { Point, RoomBox } from './types'
-import { assertFinite, assertPointInRoom, assertPositive, assertRoom } from './validate'
+import { assertBand, assertFinite, assertPointInRoom, assertPositive, assertRoom } from './validate'
 
 export interface SubwooferSearchOptions extends ModalResponseOptions {
   /** layouts to search, subwoofers in each (default [1, 2, 4]) */
@@ -116,21 +116,7 @@ function transfers(sys: ModalSystem, candidates: readonly Point[], seats: readon
     const cw = sourceWeights(sys, [c])
     return seatW.map((sw) => {
       for (let m = 0; m < total; m++) w[m] = cw[m] * sw[m]
-      re.fill(0)
-      im.fill(0)
-      for (let m = 0; m < M; m++) {
-        const wm = w[m]
-        if (Math.abs(wm) < 1e-12) continue
-        const base = m * F
-        for (let f = 0; f < F; f++) {
-          re[f] += wm * sys.hRe[base + f]
-          im[f] += wm * sys.hIm[base + f]
-        }
-      }
-      if (sys.farCount) {
-        const { aRe, aIm } = farSeries(sys, w, 0, sys.farCount)
-        addSeries(sys, aRe, aIm, re, im)
-      }
+      transferFromWeights(sys, w, re, im)
       const out = new Float64Array(2 * F)
       for (let f = 0; f < F; f++) { out[2 * f] = re[f]; out[2 * f + 1] = im[f] }
       return out
@@ -145,8 +131,8 @@ function scratch(tr: Transfers): Scratch {
   return { power: Array.from({ length: tr.S }, () => new Float64Array(tr.F)), prefix: new Float64Array(tr.F + 1), db: new Float64Array(tr.S * tr.F) }
 }
 
-/** Power per seat from summed complex transfers `sum[s]` (2F each). */
-function figures(tr: Transfers, sum: Float64Array[], sc: Scratch): { seatToSeatDb: number; meanSpreadDb: number } {
+/** Power per seat from summed complex transfers `sum[s]` (2F each) into `sc.power`; returns the level floor, FLOOR_DB under their mean. */
+function seatPowers(tr: Transfers, sum: Float64Array[], sc: Scratch): number {
   const { F, S } = tr
   let mean = 0
   for (let s = 0; s < S; s++) {
@@ -159,7 +145,13 @@ function figures(tr: Transfers, sum: Float64Array[], sc: Scratch): { seatToSeatD
     }
   }
   mean /= S * F
-  const floor = mean * 10 ** (FLOOR_DB / 10)
+  return mean * 10 ** (FLOOR_DB / 10)
+}
+
+/** The layout's figures from summed complex transfers `sum[s]` (2F each). */
+function figures(tr: Transfers, sum: Float64Array[], sc: Scratch): { seatToSeatDb: number; meanSpreadDb: number } {
+  const { F, S } = tr
+  const floor = seatPowers(tr, sum, sc)
   let spread = 0
   for (let s = 0; s < S; s++) {
     const p = sc.power[s]
@@ -189,18 +181,7 @@ const DB_PER_NEPER_POWER = 10 / Math.LN10
 function seatToSeatBounded(tr: Transfers, sum: Float64Array[], sc: Scratch, bound: number): number {
   const { F, S } = tr
   if (S < 2) return 0
-  let mean = 0
-  for (let s = 0; s < S; s++) {
-    const p = sc.power[s]
-    const x = sum[s]
-    for (let f = 0; f < F; f++) {
-      const v = x[2 * f] * x[2 * f] + x[2 * f + 1] * x[2 * f + 1]
-      p[f] = v
-      mean += v
-    }
-  }
-  mean /= S * F
-  const floor = mean * 10 ** (FLOOR_DB / 10)
+  const floor = seatPowers(tr, sum, sc)
   const limit = bound * F
   let std = 0
   for (let f = 0; f < F; f++) {
@@ -256,11 +237,7 @@ function checkOptions(room: RoomBox, seats: readonly Point[], opts: SubwooferSea
   assertRoom(room)
   if (!Array.isArray(seats) || seats.length === 0) throw new RangeError('the subwoofer search needs at least one seat')
   seats.forEach((s, i) => assertPointInRoom(room, s, `seat ${i + 1}`))
-  const fromHz = opts.fromHz ?? 20
-  const toHz = opts.toHz ?? 120
-  assertPositive(fromHz, 'fromHz', 'Hz')
-  assertPositive(toHz, 'toHz', 'Hz')
-  if (toHz <= fromHz) throw new RangeError(`toHz (${toHz} Hz) must lie above fromHz (${fromHz} Hz)`)
+  const [fromHz, toHz] = assertBand(opts.fromHz ?? 20, opts.toHz ?? 120)
   return { fromHz, toHz }
 }
 

@@ -22,6 +22,17 @@ export function assertNonNegative(value: number, what: string, unit = ''): void 
   if (value < 0) throw new RangeError(`${what} must not be negative: got ${fmt(value)}${unit ? ' ' + unit : ''}`)
 }
 
+/**
+ * A frequency band: both ends finite and > 0 Hz, the upper above the lower; returns [from, to].
+ * @param names how the two ends are called in messages (the option names)
+ */
+export function assertBand(fromHz: number, toHz: number, names: [string, string] = ['fromHz', 'toHz']): [number, number] {
+  assertPositive(fromHz, names[0], 'Hz')
+  assertPositive(toHz, names[1], 'Hz')
+  if (toHz <= fromHz) throw new RangeError(`${names[1]} (${toHz} Hz) must lie above ${names[0]} (${fromHz} Hz)`)
+  return [fromHz, toHz]
+}
+
 /** Air temperature must be finite and above absolute zero. */
 export function assertCelsius(celsius: number): void {
   assertFinite(celsius, 'air temperature (°C)')

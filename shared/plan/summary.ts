@@ -3,29 +3,11 @@ import type { PlanRoom } from './apply'
 import type { ChangePrediction, RtRule } from './predict'
 import { placement } from './dimensions'
 import { capitalise, m, mm, surfaceWords, treatmentTypeNames } from './names'
+import { flagInSentence } from '../words/flags'
 
-/** Short words for setup flags, used when a change clears or raises one. */
-export const flagWords: Record<string, string> = {
-  'seat-in-front-of-speakers': 'the seat in front of the speakers',
-  'seat-at-room-centre': 'the seat at the room centre',
-  'near-square-plan': 'the near-square plan',
-  'dimension-multiples': 'room dimensions in simple multiples',
-  'coincident-low-modes': 'coinciding low modes',
-  'speakers-asymmetric': 'asymmetric speakers',
-  'seat-off-centreline': 'the seat off the centre line',
-  'seat-near-wall': 'the seat close to a wall',
-  'speaker-spacing-vs-listening-distance': 'the speaker spacing against the listening distance',
-  'speaker-too-close-to-boundary': 'a speaker close to a wall',
-  'rear-port-near-wall': 'a rear port close to the wall',
-  'opening-in-reflection-zone': 'an opening where a side reflection lands',
-  'opening-asymmetry': 'openings on one side only',
-  'one-sided-corner-treatment': 'a bass trap on one side only',
-  'untreated-first-reflections': 'untreated side-wall reflections',
-  'seat-at-mode-null': 'the seat in a mode null',
-  'speaker-height-vs-ear': 'tweeters away from ear height',
-  'facing-long-wall': 'the speakers on a long wall',
-}
-const flagList = (ids: string[]) => ids.map((id) => flagWords[id] ?? id.replace(/-/g, ' ')).join(', ')
+/** A flag's name inside a sentence, from the one list in shared/words/flags.ts ("seat close to a wall"). */
+export const flagWords = (id: string): string => flagInSentence(id)
+const flagList = (ids: string[]) => ids.map(flagWords).join(', ')
 
 /** A heading for one change. */
 export function changeTitle(room: PlanRoom, body: PlanBody, id: string): string {

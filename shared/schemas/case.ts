@@ -5,14 +5,8 @@ export const caseStatuses = ['draft', 'submitted', 'in_review', 'waiting_on_list
 export const caseStatusSchema = z.enum(caseStatuses)
 export type CaseStatus = z.infer<typeof caseStatusSchema>
 
-export const caseStatusLabels: Record<CaseStatus, string> = {
-  draft: 'Draft',
-  submitted: 'New',
-  in_review: 'In review',
-  waiting_on_listener: 'Waiting on listener',
-  plan_sent: 'Plan sent',
-  closed: 'Closed',
-}
+/** The names shown for each status live in shared/words/statuses.ts (one source for every page and e-mail). */
+export { caseStatusLabels } from '../words/statuses'
 
 export const budgetBands = ['under-250', '250-1000', '1000-3000', 'over-3000', 'not-sure'] as const
 

@@ -154,25 +154,5 @@ export const ratingSchema = z.object({
 export type RatingInput = z.input<typeof ratingSchema>
 export interface Rating { caseId: string; score: number; comment: string; createdAt: string }
 
-/** Plain names for the engine's setup-flag ids, as a supervisor reads them. */
-export const flagLabels: Record<string, string> = {
-  'seat-in-front-of-speakers': 'Seat in front of the speakers',
-  'seat-at-room-centre': 'Seat at the room centre',
-  'near-square-plan': 'Near-square floor plan',
-  'dimension-multiples': 'Room dimensions in simple ratios',
-  'coincident-low-modes': 'Low room modes bunched together',
-  'speakers-asymmetric': 'Speakers placed unevenly',
-  'seat-off-centreline': 'Seat off the centre line',
-  'seat-near-wall': 'Seat close to a wall',
-  'speaker-spacing-vs-listening-distance': 'Speaker spacing vs. listening distance',
-  'speaker-too-close-to-boundary': 'Speaker close to a wall',
-  'rear-port-near-wall': 'Rear port close to a wall',
-  'opening-in-reflection-zone': 'Opening at a reflection point',
-  'opening-asymmetry': 'Openings on one side only',
-  'one-sided-corner-treatment': 'Corner treatment on one side only',
-  'untreated-first-reflections': 'Untreated first reflections',
-  'seat-at-mode-null': 'Seat in a bass null',
-  'speaker-height-vs-ear': 'Tweeter height vs. ear height',
-  'facing-long-wall': 'Speakers on the long wall',
-}
-export const flagLabel = (id: string) => flagLabels[id] ?? id.replace(/-/g, ' ')
+/** Flag names live in shared/words/flags.ts (one source for the queue, the workspace and the dashboard). */
+export { flagLabel, flagLabels } from '../words/flags'

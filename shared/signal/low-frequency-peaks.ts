@@ -5,7 +5,7 @@
  */
 import { boundaryNotches, modePressure, modePositionClass, roomModes, speedOfSound } from '../acoustics/index'
 import type { Point, RoomBox, RoomMode, Surface } from '../acoustics/index'
-import { assertCelsius, assertPointInRoom, assertPositive, assertRoom } from '../acoustics/validate'
+import { assertBand, assertCelsius, assertPointInRoom, assertPositive, assertRoom } from '../acoustics/validate'
 import { butterworthBandpass, filterSos } from './bands'
 import { analyzeDecay, round } from './decay'
 import { findOnsetIndex } from './etc'
@@ -223,11 +223,7 @@ export function explainLowFrequencyPeaks(
   assertPointInRoom(room, seat, 'seat')
   const celsius = opts.celsius ?? 20
   assertCelsius(celsius)
-  const fromHz = opts.fromHz ?? 20
-  const toHz = opts.toHz ?? 200
-  assertPositive(fromHz, 'fromHz', 'Hz')
-  assertPositive(toHz, 'toHz', 'Hz')
-  if (toHz <= fromHz) throw new RangeError(`toHz (${toHz} Hz) must lie above fromHz (${fromHz} Hz)`)
+  const [fromHz, toHz] = assertBand(opts.fromHz ?? 20, opts.toHz ?? 200)
   if (measured === null || typeof measured !== 'object') throw new RangeError('measured must be an impulse response { samples, sampleRate } or a frequency response { freqsHz, splDb }')
 
   // a margin of 1/6 octave each side, so a feature at the band's edge has neighbours for its prominence

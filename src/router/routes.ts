@@ -100,149 +100,50 @@ export function named(name: RouteName, query?: LocationQueryRaw): RouteLocationR
 }
 
 type NamedRoute = RouteRecordRaw & { name: RouteName }
+type Page = () => Promise<unknown>
+
+const LISTENER: Role[] = ['listener']
+const STAFF: Role[] = ['advisor', 'supervisor']
+const SUPERVISOR: Role[] = ['supervisor']
+const EVERYONE: Role[] = ['listener', 'advisor', 'supervisor']
+/** Open to signed-out visitors only (sign-in, sign-up): a signed-in user goes to their home. */
+const GUEST = { public: true, guestOnly: true } as const
+const PUBLIC = { public: true } as const
+
+/** One route: its address, name, lazily loaded page and meta (title, who may open it, its drawer entry). */
+const page = (path: string, name: RouteName, component: Page, meta: RouteRecordRaw['meta']): NamedRoute =>
+  ({ path, name, component, meta }) as NamedRoute
 
 /** '/' renders nothing: the guard in ./index.ts sends each visitor on to their role's home. */
 export function buildRoutes(): NamedRoute[] {
   return [
     { path: '/', name: 'home', children: [] },
-    {
-      path: '/sign-in',
-      name: 'sign-in',
-      component: () => import('../pages/SignInPage.vue'),
-      meta: { title: 'Sign in', public: true, guestOnly: true },
-    },
-    {
-      path: '/sign-up',
-      name: 'sign-up',
-      component: () => import('../pages/SignUpPage.vue'),
-      meta: { title: 'Create an account', public: true, guestOnly: true },
-    },
-    {
-      path: '/cases',
-      name: 'my-cases',
-      component: () => import('../pages/ListenerHomePage.vue'),
-      meta: { title: 'My cases', roles: ['listener'], nav: { label: 'My cases', icon: mdiFolderOutline } },
-    },
-    {
-      path: '/cases/new',
-      name: 'case-new',
-      component: () => import('../pages/CaseNewPage.vue'),
-      meta: { title: 'Open a case', roles: ['listener'] },
-    },
-    {
-      path: '/cases/:id',
-      name: 'case',
-      component: () => import('../pages/CasePage.vue'),
-      meta: { title: 'Case', roles: ['listener'] },
-    },
-    {
-      path: '/rooms',
-      name: 'rooms',
-      component: () => import('../pages/RoomsPage.vue'),
-      meta: { title: 'My rooms', roles: ['listener'], nav: { label: 'My rooms', icon: mdiFloorPlan } },
-    },
-    {
-      path: '/rooms/new',
-      name: 'room-new',
-      component: () => import('../pages/RoomEditorPage.vue'),
-      meta: { title: 'Describe a room', roles: ['listener'] },
-    },
-    {
-      path: '/rooms/:id',
-      name: 'room-edit',
-      component: () => import('../pages/RoomEditorPage.vue'),
-      meta: { title: 'Room', roles: ['listener'] },
-    },
-    {
-      path: '/dashboard',
-      name: 'dashboard',
-      component: () => import('../pages/DashboardPage.vue'),
-      meta: { title: 'Dashboard', roles: ['supervisor'], nav: { label: 'Dashboard', icon: mdiChartBoxOutline } },
-    },
-    {
-      path: '/queue',
-      name: 'queue',
-      component: () => import('../pages/QueuePage.vue'),
-      meta: { title: 'Case queue', roles: ['advisor', 'supervisor'], nav: { label: 'Case queue', icon: mdiTrayFull } },
-    },
-    {
-      path: '/desk/cases/:id',
-      name: 'case-workspace',
-      component: () => import('../pages/CaseWorkspacePage.vue'),
-      meta: { title: 'Case', roles: ['advisor', 'supervisor'] },
-    },
-    {
-      path: '/desk/cases/:id/plan',
-      name: 'plan-editor',
-      component: () => import('../pages/PlanEditorPage.vue'),
-      meta: { title: 'Treatment plan', roles: ['advisor', 'supervisor'] },
-    },
-    {
-      path: '/cases/:id/plans/:version/report',
-      name: 'plan-report',
-      component: () => import('../pages/PlanReportPage.vue'),
-      meta: { title: 'Treatment plan', roles: ['listener', 'advisor', 'supervisor'] },
-    },
-    {
-      path: '/team',
-      name: 'team',
-      component: () => import('../pages/TeamPage.vue'),
-      meta: { title: 'Team', roles: ['supervisor'], nav: { label: 'Team', icon: mdiAccountGroupOutline } },
-    },
-    {
-      path: '/team/audit',
-      name: 'audit-log',
-      component: () => import('../pages/AuditLogPage.vue'),
-      meta: { title: 'Audit log', roles: ['supervisor'] },
-    },
-    {
-      // The link in an invitation e-mail (server/services/team.ts setPasswordUrl).
-      path: '/welcome/:token',
-      name: 'set-password',
-      component: () => import('../pages/SetPasswordPage.vue'),
-      meta: { title: 'Set your password', public: true },
-    },
-    {
-      path: '/forgot-password',
-      name: 'forgot-password',
-      component: () => import('../pages/ForgotPasswordPage.vue'),
-      meta: { title: 'Forgot password', public: true },
-    },
-    {
-      // The link in a password-reset e-mail (server/services/passwords.ts resetPasswordUrl); the token is in the #fragment.
-      path: '/reset-password',
-      name: 'reset-password',
-      component: () => import('../pages/ResetPasswordPage.vue'),
-      meta: { title: 'Choose a new password', public: true },
-    },
-    {
-      path: '/guide/measuring',
-      name: 'measuring-guide',
-      component: () => import('../pages/MeasuringGuidePage.vue'),
-      meta: {
-        title: 'Measuring at home',
-        roles: ['listener', 'advisor', 'supervisor'],
-        nav: { label: 'Measuring guide', icon: mdiMicrophoneOutline },
-      },
-    },
-    {
-      path: '/account',
-      name: 'account',
-      component: () => import('../pages/AccountPage.vue'),
-      meta: { title: 'Your account', roles: ['listener', 'advisor', 'supervisor'] },
-    },
-    {
-      path: '/mailbox',
-      name: 'mailbox',
-      component: () => import('../pages/MailboxPage.vue'),
-      meta: { title: 'Outgoing mail', roles: ['supervisor'], nav: { label: 'Outgoing mail', icon: mdiEmailOutline } },
-    },
-    {
-      path: '/:pathMatch(.*)*',
-      name: 'not-found',
-      component: () => import('../pages/NotFoundPage.vue'),
-      meta: { title: 'Page not found', public: true },
-    },
+    page('/sign-in', 'sign-in', () => import('../pages/SignInPage.vue'), { title: 'Sign in', ...GUEST }),
+    page('/sign-up', 'sign-up', () => import('../pages/SignUpPage.vue'), { title: 'Create an account', ...GUEST }),
+    page('/cases', 'my-cases', () => import('../pages/ListenerHomePage.vue'), { title: 'My cases', roles: LISTENER, nav: { label: 'My cases', icon: mdiFolderOutline } }),
+    page('/cases/new', 'case-new', () => import('../pages/CaseNewPage.vue'), { title: 'Open a case', roles: LISTENER }),
+    page('/cases/:id', 'case', () => import('../pages/CasePage.vue'), { title: 'Case', roles: LISTENER }),
+    page('/rooms', 'rooms', () => import('../pages/RoomsPage.vue'), { title: 'My rooms', roles: LISTENER, nav: { label: 'My rooms', icon: mdiFloorPlan } }),
+    page('/rooms/new', 'room-new', () => import('../pages/RoomEditorPage.vue'), { title: 'Describe a room', roles: LISTENER }),
+    page('/rooms/:id', 'room-edit', () => import('../pages/RoomEditorPage.vue'), { title: 'Room', roles: LISTENER }),
+    page('/dashboard', 'dashboard', () => import('../pages/DashboardPage.vue'), { title: 'Dashboard', roles: SUPERVISOR, nav: { label: 'Dashboard', icon: mdiChartBoxOutline } }),
+    page('/queue', 'queue', () => import('../pages/QueuePage.vue'), { title: 'Case queue', roles: STAFF, nav: { label: 'Case queue', icon: mdiTrayFull } }),
+    page('/desk/cases/:id', 'case-workspace', () => import('../pages/CaseWorkspacePage.vue'), { title: 'Case', roles: STAFF }),
+    page('/desk/cases/:id/plan', 'plan-editor', () => import('../pages/PlanEditorPage.vue'), { title: 'Treatment plan', roles: STAFF }),
+    page('/cases/:id/plans/:version/report', 'plan-report', () => import('../pages/PlanReportPage.vue'), { title: 'Treatment plan', roles: EVERYONE }),
+    page('/team', 'team', () => import('../pages/TeamPage.vue'), { title: 'Team', roles: SUPERVISOR, nav: { label: 'Team', icon: mdiAccountGroupOutline } }),
+    page('/team/audit', 'audit-log', () => import('../pages/AuditLogPage.vue'), { title: 'Audit log', roles: SUPERVISOR }),
+    // The link in an invitation e-mail (server/services/team.ts setPasswordUrl).
+    page('/welcome/:token', 'set-password', () => import('../pages/SetPasswordPage.vue'), { title: 'Set your password', ...PUBLIC }),
+    page('/forgot-password', 'forgot-password', () => import('../pages/ForgotPasswordPage.vue'), { title: 'Forgot password', ...PUBLIC }),
+    // The link in a password-reset e-mail (server/services/passwords.ts resetPasswordUrl); the token is in the #fragment.
+    page('/reset-password', 'reset-password', () => import('../pages/ResetPasswordPage.vue'), { title: 'Choose a new password', ...PUBLIC }),
+    page('/guide/measuring', 'measuring-guide', () => import('../pages/MeasuringGuidePage.vue'), {
+      title: 'Measuring at home', roles: EVERYONE, nav: { label: 'Measuring guide', icon: mdiMicrophoneOutline },
+    }),
+    page('/account', 'account', () => import('../pages/AccountPage.vue'), { title: 'Your account', roles: EVERYONE }),
+    page('/mailbox', 'mailbox', () => import('../pages/MailboxPage.vue'), { title: 'Outgoing mail', roles: SUPERVISOR, nav: { label: 'Outgoing mail', icon: mdiEmailOutline } }),
+    page('/:pathMatch(.*)*', 'not-found', () => import('../pages/NotFoundPage.vue'), { title: 'Page not found', ...PUBLIC }),
   ]
 }
 

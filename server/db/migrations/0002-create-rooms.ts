@@ -1,22 +1,22 @@
 import { DataTypes, type QueryInterface } from 'sequelize'
+import { desc, ref, stamp, uuidKey } from '../migration-columns'
 
 export async function up({ context: q }: { context: QueryInterface }): Promise<void> {
-  const now = q.sequelize.literal('now()')
   await q.createTable('rooms', {
-    id: { type: DataTypes.UUID, primaryKey: true, allowNull: false, defaultValue: q.sequelize.literal('gen_random_uuid()') },
-    owner_id: { type: DataTypes.UUID, allowNull: false, references: { model: 'users', key: 'id' }, onDelete: 'CASCADE' },
+    id: uuidKey(),
+    owner_id: ref('users', 'CASCADE', true),
     name: { type: DataTypes.STRING(120), allowNull: false },
     current_revision: { type: DataTypes.INTEGER, allowNull: false, defaultValue: 1 },
-    created_at: { type: DataTypes.DATE, allowNull: false, defaultValue: now },
-    updated_at: { type: DataTypes.DATE, allowNull: false, defaultValue: now },
+    created_at: stamp(),
+    updated_at: stamp(),
   })
-  await q.addIndex('rooms', { fields: ['owner_id', { name: 'updated_at', order: 'DESC' as const }], name: 'rooms_owner' })
+  await q.addIndex('rooms', { fields: ['owner_id', desc('updated_at')], name: 'rooms_owner' })
   await q.createTable('room_revisions', {
-    room_id: { type: DataTypes.UUID, primaryKey: true, allowNull: false, references: { model: 'rooms', key: 'id' }, onDelete: 'CASCADE' },
+    room_id: { ...ref('rooms', 'CASCADE', true), primaryKey: true },
     revision: { type: DataTypes.INTEGER, primaryKey: true, allowNull: false },
     body: { type: DataTypes.JSONB, allowNull: false },
-    created_by: { type: DataTypes.UUID, allowNull: true, references: { model: 'users', key: 'id' }, onDelete: 'SET NULL' },
-    created_at: { type: DataTypes.DATE, allowNull: false, defaultValue: now },
+    created_by: ref('users', 'SET NULL'),
+    created_at: stamp(),
   })
 }
 

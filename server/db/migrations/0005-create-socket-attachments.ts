@@ -1,15 +1,15 @@
-import type { QueryInterface } from 'sequelize'
+import { DataTypes, type QueryInterface } from 'sequelize'
+import { now } from '../migration-columns'
 
-/** The table @socket.io/postgres-adapter uses for payloads too large for NOTIFY (its README's schema). */
+/** The table @socket.io/postgres-adapter uses for payloads too large for NOTIFY (its README's schema: no primary key, nullable columns). */
 export async function up({ context: q }: { context: QueryInterface }): Promise<void> {
-  await q.sequelize.query(`
-    CREATE TABLE socket_io_attachments (
-      id bigserial UNIQUE,
-      created_at timestamptz DEFAULT now(),
-      payload bytea
-    )`)
+  await q.createTable('socket_io_attachments', {
+    id: { type: DataTypes.BIGINT, autoIncrement: true, unique: true },
+    created_at: { type: DataTypes.DATE, allowNull: true, defaultValue: now() },
+    payload: { type: DataTypes.BLOB, allowNull: true },
+  })
 }
 
 export async function down({ context: q }: { context: QueryInterface }): Promise<void> {
-  await q.sequelize.query('DROP TABLE socket_io_attachments')
+  await q.dropTable('socket_io_attachments')
 }

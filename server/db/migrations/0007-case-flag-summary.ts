@@ -1,10 +1,10 @@
-import type { QueryInterface } from 'sequelize'
+import { DataTypes, literal, type QueryInterface } from 'sequelize'
 
 /** The latest triage's flags (id + severity) on the case row, so the queue never reads whole snapshots. */
 export async function up({ context: q }: { context: QueryInterface }): Promise<void> {
-  await q.sequelize.query(`ALTER TABLE cases ADD COLUMN flags jsonb NOT NULL DEFAULT '[]'`)
+  await q.addColumn('cases', 'flags', { type: DataTypes.JSONB, allowNull: false, defaultValue: literal("'[]'") })
 }
 
 export async function down({ context: q }: { context: QueryInterface }): Promise<void> {
-  await q.sequelize.query('ALTER TABLE cases DROP COLUMN flags')
+  await q.removeColumn('cases', 'flags')
 }

@@ -1,4 +1,5 @@
-import type { QueryInterface } from 'sequelize'
+import { DataTypes, Op, literal, type QueryInterface } from 'sequelize'
+import { maybeAt, ref, stamp } from '../migration-columns'
 
 /**
  * Response targets and business hours (one row), satisfaction ratings, and `rw_working_seconds`:
@@ -6,33 +7,37 @@ import type { QueryInterface } from 'sequelize'
  * so percentiles of working time are computed in the database.
  */
 export async function up({ context: q }: { context: QueryInterface }): Promise<void> {
+  // literal: QueryInterface would quote a number default of a DOUBLE column as a string ('24'::double precision).
+  await q.createTable('desk_settings', {
+    id: { type: DataTypes.SMALLINT, primaryKey: true, allowNull: false, defaultValue: 1 },
+    first_response_hours: { type: DataTypes.DOUBLE, allowNull: false, defaultValue: literal('24') },
+    resolution_hours: { type: DataTypes.DOUBLE, allowNull: false, defaultValue: literal('120') },
+    warn_at_percent: { type: DataTypes.INTEGER, allowNull: false, defaultValue: 75 },
+    time_zone: { type: DataTypes.STRING(64), allowNull: true },
+    week: { type: DataTypes.JSONB, allowNull: true },
+    updated_at: maybeAt(),
+    updated_by: ref('users', 'SET NULL'),
+  })
+  await q.addConstraint('desk_settings', { type: 'check', name: 'desk_settings_id_check', fields: ['id'], where: { id: 1 } })
+  await q.bulkInsert('desk_settings', [{ id: 1 }])
+
+  await q.createTable('case_ratings', {
+    case_id: { ...ref('cases', 'CASCADE', true), primaryKey: true },
+    listener_id: ref('users', 'CASCADE', true),
+    score: { type: DataTypes.SMALLINT, allowNull: false },
+    comment: { type: DataTypes.TEXT, allowNull: false, defaultValue: '' },
+    created_at: stamp(),
+  })
+  await q.addConstraint('case_ratings', { type: 'check', name: 'case_ratings_score_check', fields: ['score'], where: { score: { [Op.between]: [1, 5] } } })
+  await q.addIndex('case_ratings', { fields: ['created_at'], name: 'case_ratings_time' })
+
+  await q.addIndex('case_events', { fields: ['case_id', 'created_at'], name: 'case_events_moves', where: { to_status: { [Op.ne]: null } } })
+  await q.addIndex('cases', { fields: ['closed_at'], name: 'cases_closed_at', where: { closed_at: { [Op.ne]: null } } })
+
+  // Raw SQL: QueryInterface cannot create a function. Working seconds between two instants: for each local
+  // date the interval touches, the overlap with that weekday's hours (week: 7 entries, Monday first, each
+  // null or {"start":"HH:MM","end":"HH:MM"}).
   await q.sequelize.query(`
-    CREATE TABLE desk_settings (
-      id smallint PRIMARY KEY DEFAULT 1 CHECK (id = 1),
-      first_response_hours double precision NOT NULL DEFAULT 24,
-      resolution_hours double precision NOT NULL DEFAULT 120,
-      warn_at_percent integer NOT NULL DEFAULT 75,
-      time_zone varchar(64),
-      week jsonb,
-      updated_at timestamptz,
-      updated_by uuid REFERENCES users(id) ON DELETE SET NULL
-    );
-    INSERT INTO desk_settings (id) VALUES (1);
-
-    CREATE TABLE case_ratings (
-      case_id uuid PRIMARY KEY REFERENCES cases(id) ON DELETE CASCADE,
-      listener_id uuid NOT NULL REFERENCES users(id) ON DELETE CASCADE,
-      score smallint NOT NULL CHECK (score BETWEEN 1 AND 5),
-      comment text NOT NULL DEFAULT '',
-      created_at timestamptz NOT NULL DEFAULT now()
-    );
-    CREATE INDEX case_ratings_time ON case_ratings (created_at);
-
-    CREATE INDEX case_events_moves ON case_events (case_id, created_at) WHERE to_status IS NOT NULL;
-    CREATE INDEX cases_closed_at ON cases (closed_at) WHERE closed_at IS NOT NULL;
-
-    -- Working seconds between two instants: for each local date the interval touches, the overlap
-    -- with that weekday's hours (week: 7 entries, Monday first, each null or {"start":"HH:MM","end":"HH:MM"}).
     CREATE FUNCTION rw_working_seconds(a timestamptz, b timestamptz, tz text, week jsonb) RETURNS double precision
     LANGUAGE sql STABLE PARALLEL SAFE AS $$
       SELECT CASE WHEN a IS NULL OR b IS NULL THEN NULL
@@ -50,9 +55,10 @@ export async function up({ context: q }: { context: QueryInterface }): Promise<v
 }
 
 export async function down({ context: q }: { context: QueryInterface }): Promise<void> {
-  await q.sequelize.query(`
-    DROP FUNCTION rw_working_seconds(timestamptz, timestamptz, text, jsonb);
-    DROP INDEX cases_closed_at; DROP INDEX case_events_moves;
-    DROP TABLE case_ratings; DROP TABLE desk_settings;
-  `)
+  // Raw SQL: the function (see up).
+  await q.sequelize.query('DROP FUNCTION rw_working_seconds(timestamptz, timestamptz, text, jsonb)')
+  await q.removeIndex('cases', 'cases_closed_at')
+  await q.removeIndex('case_events', 'case_events_moves')
+  await q.dropTable('case_ratings')
+  await q.dropTable('desk_settings')
 }

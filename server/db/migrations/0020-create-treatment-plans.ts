@@ -1,28 +1,31 @@
-import type { QueryInterface } from 'sequelize'
+import { DataTypes, Op, type QueryInterface } from 'sequelize'
+import { desc, maybeAt, ref, stamp, uuidKey } from '../migration-columns'
 
 /**
  * Treatment plans: numbered versions per case. A saved version never changes (a trigger refuses any
  * update of its content); sending it only stamps sent_at / sent_by, once.
  */
 export async function up({ context: q }: { context: QueryInterface }): Promise<void> {
-  await q.sequelize.query(`
-    CREATE TABLE treatment_plans (
-      id uuid PRIMARY KEY DEFAULT gen_random_uuid(),
-      case_id uuid NOT NULL REFERENCES cases(id) ON DELETE CASCADE,
-      version integer NOT NULL CHECK (version > 0),
-      room_id uuid NOT NULL REFERENCES rooms(id) ON DELETE RESTRICT,
-      room_revision integer NOT NULL,
-      body jsonb NOT NULL,
-      predictions jsonb NOT NULL,
-      engine_version varchar(40) NOT NULL,
-      created_by uuid REFERENCES users(id) ON DELETE SET NULL,
-      created_at timestamptz NOT NULL DEFAULT now(),
-      sent_at timestamptz,
-      sent_by uuid REFERENCES users(id) ON DELETE SET NULL,
-      UNIQUE (case_id, version)
-    );
-    CREATE INDEX treatment_plans_case ON treatment_plans (case_id, version DESC);
+  await q.createTable('treatment_plans', {
+    id: uuidKey(),
+    case_id: ref('cases', 'CASCADE', true),
+    version: { type: DataTypes.INTEGER, allowNull: false },
+    room_id: ref('rooms', 'RESTRICT', true),
+    room_revision: { type: DataTypes.INTEGER, allowNull: false },
+    body: { type: DataTypes.JSONB, allowNull: false },
+    predictions: { type: DataTypes.JSONB, allowNull: false },
+    engine_version: { type: DataTypes.STRING(40), allowNull: false },
+    created_by: ref('users', 'SET NULL'),
+    created_at: stamp(),
+    sent_at: maybeAt(),
+    sent_by: ref('users', 'SET NULL'),
+  })
+  await q.addConstraint('treatment_plans', { type: 'check', name: 'treatment_plans_version_check', fields: ['version'], where: { version: { [Op.gt]: 0 } } })
+  await q.addConstraint('treatment_plans', { type: 'unique', name: 'treatment_plans_case_id_version_key', fields: ['case_id', 'version'] })
+  await q.addIndex('treatment_plans', { fields: ['case_id', desc('version')], name: 'treatment_plans_case' })
 
+  // Raw SQL: QueryInterface cannot create a function or a trigger.
+  await q.sequelize.query(`
     CREATE FUNCTION treatment_plans_immutable() RETURNS trigger LANGUAGE plpgsql AS $$
     BEGIN
       IF NEW.case_id IS DISTINCT FROM OLD.case_id OR NEW.version IS DISTINCT FROM OLD.version
@@ -41,9 +44,7 @@ export async function up({ context: q }: { context: QueryInterface }): Promise<v
 }
 
 export async function down({ context: q }: { context: QueryInterface }): Promise<void> {
-  await q.sequelize.query(`
-    DROP TRIGGER treatment_plans_immutable ON treatment_plans;
-    DROP FUNCTION treatment_plans_immutable();
-    DROP TABLE treatment_plans;
-  `)
+  // Raw SQL: the trigger and its function (see up).
+  await q.sequelize.query('DROP TRIGGER treatment_plans_immutable ON treatment_plans; DROP FUNCTION treatment_plans_immutable()')
+  await q.dropTable('treatment_plans')
 }

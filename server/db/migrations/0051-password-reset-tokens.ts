@@ -1,4 +1,5 @@
-import type { QueryInterface } from 'sequelize'
+import { DataTypes, type QueryInterface } from 'sequelize'
+import { desc, maybeAt, ref, stamp, uuidKey } from '../migration-columns'
 
 /**
  * One-time links for choosing a new password. Only a SHA-256 of the token is kept (a leaked row
@@ -6,19 +7,17 @@ import type { QueryInterface } from 'sequelize'
  * newer one, or spent by a reset through another link.
  */
 export async function up({ context: q }: { context: QueryInterface }): Promise<void> {
-  await q.sequelize.query(`
-    CREATE TABLE password_reset_tokens (
-      id uuid PRIMARY KEY DEFAULT gen_random_uuid(),
-      user_id uuid NOT NULL REFERENCES users(id) ON DELETE CASCADE,
-      token_hash char(64) NOT NULL UNIQUE,
-      created_at timestamptz NOT NULL DEFAULT now(),
-      expires_at timestamptz NOT NULL,
-      spent_at timestamptz
-    );
-    CREATE INDEX password_reset_tokens_user ON password_reset_tokens (user_id, created_at DESC);
-  `)
+  await q.createTable('password_reset_tokens', {
+    id: uuidKey(),
+    user_id: ref('users', 'CASCADE', true),
+    token_hash: { type: DataTypes.CHAR(64), allowNull: false, unique: true },
+    created_at: stamp(),
+    expires_at: { type: DataTypes.DATE, allowNull: false },
+    spent_at: maybeAt(),
+  })
+  await q.addIndex('password_reset_tokens', { fields: ['user_id', desc('created_at')], name: 'password_reset_tokens_user' })
 }
 
 export async function down({ context: q }: { context: QueryInterface }): Promise<void> {
-  await q.sequelize.query('DROP TABLE password_reset_tokens')
+  await q.dropTable('password_reset_tokens')
 }

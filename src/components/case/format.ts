@@ -1,19 +1,15 @@
 import { mdiAlertCircleOutline, mdiAlertOutline, mdiInformationOutline } from '@mdi/js'
+import { formatAgo, formatDateTime } from '../../../shared/words/dates'
+import { flagLabel, severityLabels, type Severity } from '../../../shared/words/flags'
+
+export { severityOf, type Severity } from '../../../shared/words/flags'
 
 const minute = 60_000
 const hour = 60 * minute
 const day = 24 * hour
 
-/** "just now", "12 min ago", "3 h ago", "2 days ago", then the date. */
-export function ago(iso: string | null | undefined, now = Date.now()): string {
-  if (!iso) return '–'
-  const diff = now - new Date(iso).getTime()
-  if (diff < minute) return 'just now'
-  if (diff < hour) return `${Math.floor(diff / minute)} min ago`
-  if (diff < day) return `${Math.floor(diff / hour)} h ago`
-  if (diff < 14 * day) return `${Math.floor(diff / day)} day${diff < 2 * day ? '' : 's'} ago`
-  return new Date(iso).toLocaleDateString(undefined, { day: 'numeric', month: 'short', year: 'numeric' })
-}
+/** "just now", "12 min ago", "3 h ago", "2 days ago", then the date (shared/words/dates.ts). */
+export const ago = (iso: string | null | undefined, now = Date.now()): string => formatAgo(iso, now)
 
 /** A span of time without "ago": "40 min", "5 h", "3 days 4 h" (compact: "3 d 4 h"). */
 export function span(fromIso: string | null | undefined, now = Date.now(), compact = false): string {
@@ -31,28 +27,18 @@ export function hoursSince(iso: string | null | undefined, now = Date.now()): nu
   return iso ? (now - new Date(iso).getTime()) / hour : 0
 }
 
-export function dateTime(iso: string): string {
-  return new Date(iso).toLocaleString(undefined, { day: 'numeric', month: 'short', hour: '2-digit', minute: '2-digit' })
-}
-
-export type Severity = 'info' | 'warning' | 'problem'
+/** The one date-and-time format, in the viewer's zone (shared/words/dates.ts). */
+export const dateTime = (iso: string): string => formatDateTime(iso)
 
 /** Severity shown by icon and word as well as colour. */
 export const severityLook: Record<Severity, { icon: string; color: string; label: string }> = {
-  problem: { icon: mdiAlertCircleOutline, color: 'error', label: 'Problem' },
-  warning: { icon: mdiAlertOutline, color: 'warning', label: 'Worth a look' },
-  info: { icon: mdiInformationOutline, color: 'info', label: 'Note' },
+  problem: { icon: mdiAlertCircleOutline, color: 'error', label: severityLabels.problem },
+  warning: { icon: mdiAlertOutline, color: 'warning', label: severityLabels.warning },
+  info: { icon: mdiInformationOutline, color: 'info', label: severityLabels.info },
 }
 
-export function severityOf(value: string): Severity {
-  return value === 'problem' || value === 'warning' ? value : 'info'
-}
-
-/** "facing-long-wall" → "Facing long wall". */
-export function flagName(id: string): string {
-  const words = id.replace(/-/g, ' ')
-  return words.charAt(0).toUpperCase() + words.slice(1)
-}
+/** A flag's name, from the one list in shared/words/flags.ts. */
+export const flagName = flagLabel
 
 export const budgetLabels: Record<string, string> = {
   'under-250': 'Under 250',

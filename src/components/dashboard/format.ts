@@ -1,3 +1,5 @@
+import { formatDateTime, formatDayMonth } from '../../../shared/words/dates'
+
 /** Hours as a supervisor reads them: "45 min", "7.5 h", "3.2 days". */
 export function hours(h: number | null | undefined): string {
   if (h === null || h === undefined || !Number.isFinite(h)) return '–'
@@ -9,9 +11,8 @@ export function hours(h: number | null | undefined): string {
 export const percent = (share: number | null | undefined, digits = 0) =>
   share === null || share === undefined ? '–' : `${(share * 100).toFixed(digits)} %`
 
-/** "3 Mar" for a week starting on that day (in the browser's zone). */
-export const weekLabel = (iso: string, timeZone?: string) =>
-  new Date(iso).toLocaleDateString(undefined, { day: 'numeric', month: 'short', timeZone })
+/** "3 Mar" for a week starting on that day (in the browser's zone unless one is given). */
+export const weekLabel = (iso: string, timeZone?: string) => formatDayMonth(iso, { timeZone })
 
-export const dateTime = (iso: string, timeZone?: string) =>
-  new Date(iso).toLocaleString(undefined, { weekday: 'short', day: 'numeric', month: 'short', hour: '2-digit', minute: '2-digit', timeZone })
+/** The one date-and-time format (shared/words/dates.ts). */
+export const dateTime = (iso: string, timeZone?: string) => formatDateTime(iso, { timeZone })

@@ -1,4 +1,5 @@
 import type { Surface } from '../../../shared/acoustics'
+import { surfaceWords } from '../../../shared/plan/names'
 
 /** Drawing units per view: the longer side of the drawn rectangle gets this many. */
 export const PLAN_SPAN = 360
@@ -10,14 +11,8 @@ export function snapInside(metres: number, size: number, margin = 0.01): number 
   return Math.min(Math.max(snapped, margin), Math.max(margin, Math.round((size - margin) * 100) / 100))
 }
 
-export const surfaceNames: Record<Surface, string> = {
-  front: 'front wall',
-  back: 'back wall',
-  left: 'left wall',
-  right: 'right wall',
-  floor: 'floor',
-  ceiling: 'ceiling',
-}
+/** The surfaces' names: the plan's own words, so the room editor and the plan say the same. */
+export const surfaceNames: Record<Surface, string> = surfaceWords
 
 export const openingNames: Record<string, string> = {
   door: 'door',

@@ -57,6 +57,46 @@ describe('materials table', () => {
     for (const s of [PANEL_FLOW_RESISTIVITY - 2000, PANEL_FLOW_RESISTIVITY + 2000, 10_000, 60_000]) expect(rms(s)).toBeGreaterThan(rms(PANEL_FLOW_RESISTIVITY))
     expect(getMaterial('porous-panel-50mm').source).toMatch(/Miki.*Bies/)
   })
+  it('holds every Vorländer row as tabulated in pyroomacoustics (LCAV/pyroomacoustics, pyroomacoustics/data/materials.json, commit 57395b2; Vorländer, Auralization, annex): 125 Hz–4 kHz and 8 kHz where the table gives it', () => {
+    // [our id, the table's key, its coefficients 125 Hz … 8 kHz as printed there]
+    const table: [string, string, number[]][] = [
+      ['plasterboard-double-on-frame', 'plasterboard', [0.15, 0.1, 0.06, 0.04, 0.04, 0.05, 0.05]],
+      ['plaster-on-masonry', 'hard_surface', [0.02, 0.02, 0.03, 0.03, 0.04, 0.05, 0.05]],
+      ['brickwork-rendered', 'brickwork', [0.01, 0.02, 0.02, 0.03, 0.03, 0.04, 0.04]],
+      ['concrete-rough', 'rough_concrete', [0.02, 0.03, 0.03, 0.03, 0.04, 0.07, 0.07]],
+      ['wood-panelling-on-frame', 'wooden_lining', [0.27, 0.23, 0.22, 0.15, 0.1, 0.07, 0.06]],
+      ['wood-16mm-on-studs', 'wood_16mm', [0.18, 0.12, 0.1, 0.09, 0.08, 0.07, 0.07]],
+      ['acoustic-plaster-25mm', 'acoustical_plaster_25mm', [0.17, 0.36, 0.66, 0.65, 0.62, 0.68]],
+      ['ceramic-tiles', 'ceramic_tiles', [0.01, 0.01, 0.01, 0.02, 0.02, 0.02, 0.02]],
+      ['linoleum-on-concrete', 'linoleum_on_concrete', [0.02, 0.03, 0.03, 0.03, 0.03, 0.02]],
+      ['carpet-on-felt-underlay', 'carpet_tufted_9m', [0.08, 0.08, 0.3, 0.6, 0.75, 0.8, 0.8]],
+      ['carpet-thin-on-concrete', 'carpet_thin', [0.02, 0.04, 0.08, 0.2, 0.35, 0.4]],
+      ['plasterboard-ceiling-on-battens', 'ceiling_plasterboard', [0.2, 0.15, 0.1, 0.08, 0.04, 0.02]],
+      ['double-glazing', 'double_glazing_30mm', [0.15, 0.05, 0.03, 0.03, 0.02, 0.02, 0.02]],
+      ['door-solid-wood', 'wooden_door', [0.14, 0.1, 0.06, 0.08, 0.1, 0.1, 0.1]],
+      ['curtains-cotton-draped', 'curtains_cotton_0.5', [0.3, 0.45, 0.65, 0.56, 0.59, 0.71, 0.71]],
+      ['curtains-light', 'curtains_0.2', [0.05, 0.06, 0.39, 0.63, 0.7, 0.73, 0.73]],
+      ['curtains-heavy-folded', 'curtains_fabric_folded', [0.12, 0.6, 0.98, 1, 1, 1, 1]],
+      ['blinds-half-open', 'blinds_half_open', [0.03, 0.09, 0.24, 0.46, 0.79, 0.76]],
+      ['upholstered-seating-cloth', 'chairs_upholstered_cloth', [0.44, 0.6, 0.77, 0.89, 0.82, 0.7, 0.7]],
+      ['upholstered-seating-leather', 'chairs_upholstered_leather', [0.4, 0.5, 0.58, 0.61, 0.58, 0.5, 0.5]],
+      ['rockwool-50mm-40kg', 'rockwool_50mm_40kgm3', [0.23, 0.59, 0.86, 0.86, 0.86, 0.86, 0.86]],
+      ['rockwool-50mm-80kg', 'rockwool_50mm_80kgm3', [0.22, 0.6, 0.92, 0.9, 0.88, 0.88, 0.88]],
+      ['mineral-wool-50mm-300mm-gap', 'mineral_wool_50mm_70kgm3', [0.7, 0.45, 0.65, 0.6, 0.75, 0.65, 0.65]],
+    ]
+    for (const [id, key, a] of table) {
+      const m = getMaterial(id)
+      expect(m.alpha.slice(1, 7), `${id} (${key})`).toEqual(a.slice(0, 6))
+      expect(m.alpha[7], `${id} (${key}) at 8 kHz`).toBe(a[6] ?? null)
+      expect(m.source).toMatch(/Vorländer/)
+    }
+    // every row citing Vorländer is in the list above: none is left unchecked
+    const listed = new Set(table.map(([id]) => id))
+    for (const m of MATERIALS.filter((x) => /Vorländer/.test(x.source))) expect(listed.has(m.id), m.id).toBe(true)
+  })
+  it("the open doorway is Sabine's open window, α = 1 in every band (Kuttruff, Room Acoustics, ch. 5)", () => {
+    expect(getMaterial('open-doorway').alpha).toEqual(OCTAVE_BANDS_HZ.map(() => 1))
+  })
   it('computes the porous panels from the Miki model: thicker panels absorb more at 125 Hz', () => {
     const a = [25, 50, 100, 200].map((t) => getMaterial(`porous-panel-${t}mm`).alpha[1]!)
     for (let i = 1; i < a.length; i++) expect(a[i]).toBeGreaterThan(a[i - 1])

@@ -66,7 +66,7 @@ describe('renderPlanPdf', () => {
   it('holds the plan’s words: title, steps in order, notes, shopping list, follow-up measuring and every caution', async () => {
     const text = pdfText(await pdfP).replace(/\s+/g, ' ')
     for (const s of [
-      'Flutter between the plaster walls', 'For Ansgar Quennell', 'plan version 3, sent 2025-03-05 by Ottilie Brandvold',
+      'Flutter between the plaster walls', 'For Ansgar Quennell', 'plan version 3, sent 5 Mar 2025 by Ottilie Brandvold',
       'What to do, in this order', 'Start with the back wall', 'Shopping list', 'Total',
       'Measuring again after the changes', 'microphone at ear height at the main seat', 'pointing straight up',
       'moderate level', 'left speaker alone, then the right speaker alone, then both together',
