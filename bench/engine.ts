@@ -7,6 +7,7 @@
 import { pathToFileURL } from 'node:url'
 import type { RoomDescription } from '../shared/acoustics'
 import { computeRoomAnalysis } from '../shared/acoustics'
+import typicalRoom from './data/typical-room.json'
 
 export interface BenchResult {
   name: string
@@ -15,37 +16,8 @@ export interface BenchResult {
   target?: string
 }
 
-/** Our own invented typical room: 5.6 × 3.9 × 2.45 m, furnished, two speakers and one seat. */
-export const TYPICAL_ROOM: RoomDescription = {
-  length: 5.6,
-  width: 3.9,
-  height: 2.45,
-  celsius: 20,
-  speakers: [
-    { label: 'L', x: 0.75, y: 0.95, z: 1.0 },
-    { label: 'R', x: 0.75, y: 2.95, z: 1.0 },
-  ],
-  seats: [{ label: 'main', x: 3.45, y: 1.95, z: 1.08 }],
-  openings: [
-    { wall: 'right', kind: 'window', from: 2.0, to: 3.4, bottom: 0.85, top: 2.15 },
-    { wall: 'back', kind: 'door', from: 0.3, to: 1.15, bottom: 0, top: 2.0 },
-  ],
-  surfaces: {
-    front: 'gypsum-on-studs', back: 'gypsum-on-studs', left: 'gypsum-on-studs', right: 'gypsum-on-studs',
-    floor: 'heavy-carpet-on-concrete', ceiling: 'plasterboard-ceiling-on-battens',
-  },
-  furnishings: [
-    { materialId: 'upholstered-seating-cloth', areaM2: 2.4 },
-    { materialId: 'curtains-cotton-draped', areaM2: 3.0 },
-  ],
-  treatments: [
-    { type: 'panel', surface: 'left', materialId: 'porous-panel-50mm', x: 1.9, y: 0, z: 1.05, widthM: 1.2, heightM: 0.6 },
-    { type: 'panel', surface: 'right', materialId: 'porous-panel-50mm', x: 1.9, y: 3.9, z: 1.05, widthM: 1.2, heightM: 0.6 },
-    { type: 'bass-trap', surface: 'front', materialId: 'porous-panel-100mm-gap-100mm', x: 0, y: 0.35, z: 1.2, widthM: 0.7, heightM: 2.4 },
-    { type: 'bass-trap', surface: 'front', materialId: 'porous-panel-100mm-gap-100mm', x: 0, y: 3.55, z: 1.2, widthM: 0.7, heightM: 2.4 },
-    { type: 'bass-trap', surface: 'back', materialId: 'porous-panel-150mm', x: 5.6, y: 2.6, z: 1.2, widthM: 2.0, heightM: 1.2 },
-  ],
-}
+/** Our own invented typical room (bench/data/typical-room.json): 5.6 × 3.9 × 2.45 m, furnished, two speakers and one seat. */
+export const TYPICAL_ROOM = typicalRoom as unknown as RoomDescription
 
 function percentile(sorted: number[], p: number): number {
   return sorted[Math.min(sorted.length - 1, Math.floor(p * sorted.length))]

@@ -9,7 +9,7 @@ export interface Figure { name: string; value: number; unit: string; target?: st
 // Bulk loads of 10 000 cases take longer than a request may.
 process.env.DB_STATEMENT_TIMEOUT_MS ??= '300000'
 
-const all = ['./engine', './engine-worst', './signal', './lowfreq', './queue', './queue-metrics', './sockets', './load']
+const all = ['./engine', './engine-worst', './signal', './lowfreq', './queue', './queue-metrics', './sockets', './load', './pages']
 // BENCH_ONLY=queue,sockets runs a part of the bench (names as in the list above), e.g. while iterating.
 const only = process.env.BENCH_ONLY?.split(',').map((x) => `./${x.trim()}`)
 const scripts = only ? all.filter((s) => only.includes(s)) : all

@@ -12,7 +12,7 @@ const CASES = 10_000
 export async function run(): Promise<Figure[]> {
   if (!process.env.DATABASE_URL) return [{ name: 'skipped: no DATABASE_URL', value: NaN, unit: '' }]
   const { migrateUp } = await import('../server/db/migrate')
-  const { db, closeDb } = await import('../server/db/sequelize')
+  const { closeDb } = await import('../server/db/sequelize')
   const { insertHistory } = await import('../server/seed/steps/0003-history')
   const metrics = await import('../server/services/metrics')
   await migrateUp()
@@ -22,7 +22,9 @@ export async function run(): Promise<Figure[]> {
   const t0 = performance.now()
   const { listenerIds } = await insertHistory({ cases: CASES, weeks: 12, listeners: 500, tag, seed: 11 })
   figures.push({ name: `insert ${CASES} cases with events`, value: (performance.now() - t0) / 1000, unit: 's' })
-  const [{ n }] = await db().query<{ n: number }>('SELECT count(*)::int AS n FROM case_events', { type: (await import('sequelize')).QueryTypes.SELECT })
+  const { models } = await import('../server/db/models')
+  const { Op } = await import('sequelize')
+  const n = await models().CaseEvent.count()
   figures.push({ name: 'case events in the database', value: n, unit: 'rows' })
 
   const calls: [string, () => Promise<unknown>][] = [
@@ -63,8 +65,8 @@ export async function run(): Promise<Figure[]> {
       await metrics.setTargets({ id: listenerIds[0], email: '', name: 'bench', role: 'supervisor' }, previous)
     }
   } finally {
-    await db().query(`DELETE FROM audit_log WHERE actor_id = ANY($1::uuid[])`, { bind: [listenerIds] })
-    await db().query(`DELETE FROM users WHERE id = ANY($1::uuid[]) OR email LIKE $2`, { bind: [listenerIds, `${tag}-%`] })
+    await models().AuditLog.destroy({ where: { actorId: listenerIds } })
+    await models().User.destroy({ where: { [Op.or]: [{ id: listenerIds }, { email: { [Op.like]: `${tag}-%` } }] } })
     await closeDb()
   }
   return figures

@@ -52,7 +52,7 @@ export class SessionStore extends PgStore {
   }
 
   override get(sid: string, fn: Callback<session.SessionData | null>): void {
-    // a named prepared statement: planned once per connection, not on every request
+    // raw SQL: the session and its user in one named prepared statement, planned once per connection, not on every request
     this.pool.query<Row>({ name: 'rw_session_get', text: SESSION_GET, values: [sid, Math.ceil(Date.now() / 1000)] }).then(
       ({ rows: [row] }) => {
         if (!row) return fn(null, null)

@@ -3,6 +3,7 @@ import type passport from 'passport'
 import { rateLimit } from 'express-rate-limit'
 import { AppError } from '../errors'
 import { config } from '../config'
+import { PostgresRateLimitStore } from '../middleware/rate-limit-store'
 import type { User } from '../../shared/schemas/auth'
 
 /** Regenerates the session (against fixation, OWASP session management) and signs the user in, keeping the CSRF token. */
@@ -28,11 +29,13 @@ const tooMany: Parameters<typeof rateLimit>[0] = {
 /**
  * The limit on FAILED password attempts per client address (sign-in, sign-up, setting a password from an
  * invitation): LOGIN_RATE_LIMIT failures in SIGN_IN_WINDOW_MINUTES. High by default, as one office behind
- * a proxy shares an address; the per-account limit below is the tight one.
+ * a proxy shares an address; the per-account limit below is the tight one. Counted in PostgreSQL, so every
+ * node shares one budget: sign-in, sign-up, password change and invitation acceptance share "password-address",
+ * reset-link requests and resets have "reset-address".
  */
 export function passwordAttemptLimiter(opts: { countSuccess?: boolean } = {}): RequestHandler {
   // reset-link requests answer 202 whether or not the address exists: every one of them counts
-  return rateLimit({ ...tooMany, skipSuccessfulRequests: !opts.countSuccess, windowMs: config().SIGN_IN_WINDOW_MINUTES * 60_000, limit: config().LOGIN_RATE_LIMIT, identifier: 'address' })
+  return rateLimit({ ...tooMany, store: new PostgresRateLimitStore(opts.countSuccess ? 'reset-address' : 'password-address'), skipSuccessfulRequests: !opts.countSuccess, windowMs: config().SIGN_IN_WINDOW_MINUTES * 60_000, limit: config().LOGIN_RATE_LIMIT, identifier: 'address' })
 }
 
 /**
@@ -42,6 +45,7 @@ export function passwordAttemptLimiter(opts: { countSuccess?: boolean } = {}): R
 export function accountFailureLimiter(): RequestHandler {
   return rateLimit({
     ...tooMany,
+    store: new PostgresRateLimitStore('signin-account'),
     windowMs: config().SIGN_IN_WINDOW_MINUTES * 60_000,
     limit: config().SIGN_IN_FAILURES_PER_ACCOUNT,
     identifier: 'account',

@@ -1,34 +1,10 @@
-import { Op, literal, type Transaction } from 'sequelize'
+import { Op, col, fn, type Transaction } from 'sequelize'
 import { randomBytes } from 'node:crypto'
 import { models, type CaseModel } from '../db/models'
 import { dbNow } from '../db/models/now'
 import type { CaseDetail, CaseStatus, CaseSummary } from '../../shared/schemas/case'
 
-/** The row shape of `caseSelect` (the queue's full-text SQL in data/queue.ts reads cases that way). */
-interface CaseRow {
-  id: string; title: string; description: string; answers: CaseDetail['answers']; status: CaseStatus; score: number | null
-  listener_id: string; listener_name: string; assignee_id: string | null; assignee_name: string | null
-  room_id: string; room_name: string; room_revision: number; length: number; width: number; height: number
-  flags: { id: string; severity: string }[] | null
-  created_at: Date; submitted_at: Date | null; waiting_since: Date | null; last_activity_at: Date
-}
-
 const iso = (d: Date | null) => (d ? new Date(d).toISOString() : null)
-
-export const toSummary = (r: CaseRow): CaseSummary => ({
-  id: r.id,
-  title: r.title,
-  status: r.status,
-  score: r.score,
-  listener: { id: r.listener_id, name: r.listener_name },
-  assignee: r.assignee_id ? { id: r.assignee_id, name: r.assignee_name ?? '' } : null,
-  room: { id: r.room_id, name: r.room_name, revision: r.room_revision, length: Number(r.length), width: Number(r.width), height: Number(r.height) },
-  flags: r.flags ?? [],
-  createdAt: iso(r.created_at)!,
-  submittedAt: iso(r.submitted_at),
-  waitingSince: iso(r.waiting_since),
-  lastActivityAt: iso(r.last_activity_at)!,
-})
 
 /** A case loaded with the `withRoom` scope, as the API lists it. */
 export const caseToSummary = (c: CaseModel): CaseSummary => {
@@ -49,19 +25,6 @@ export const caseToSummary = (c: CaseModel): CaseSummary => {
   }
 }
 const caseToDetail = (c: CaseModel): CaseDetail => ({ ...caseToSummary(c), description: c.description, answers: c.answers, listenerId: c.listenerId })
-
-/** The columns every case listing shows, for the queue's hand-written full-text SQL (data/queue.ts). */
-export const caseSelect = `
-  SELECT c.id, c.title, c.description, c.answers, c.status, c.score, c.listener_id, l.name AS listener_name,
-         c.assignee_id, a.name AS assignee_name, c.room_id, r.name AS room_name, c.room_revision,
-         (rr.body->>'length')::float AS length, (rr.body->>'width')::float AS width, (rr.body->>'height')::float AS height,
-         c.flags,
-         c.created_at, c.submitted_at, c.waiting_since, c.last_activity_at
-    FROM cases c
-    JOIN users l ON l.id = c.listener_id
-    LEFT JOIN users a ON a.id = c.assignee_id
-    JOIN rooms r ON r.id = c.room_id
-    JOIN room_revisions rr ON rr.room_id = c.room_id AND rr.revision = c.room_revision`
 
 export async function insertCase(input: { listenerId: string; roomId: string; roomRevision: number; title: string; description: string; answers: object }, t?: Transaction): Promise<string> {
   const c = await models().Case.create(
@@ -87,6 +50,9 @@ export async function listCasesOfListener(listenerId: string): Promise<CaseSumma
   return rows.map(caseToSummary)
 }
 
+/** The column's time when it has one, else the database clock (`COALESCE(column, now())`). */
+const keep = (column: string) => fn('COALESCE', col(column), dbNow())
+
 /** Moves a case from exactly `from` to `to`; false when someone else moved it first (a stale transition). */
 export async function updateStatus(id: string, from: CaseStatus, to: CaseStatus, t: Transaction): Promise<boolean> {
   const [n] = await models().Case.update(
@@ -94,9 +60,9 @@ export async function updateStatus(id: string, from: CaseStatus, to: CaseStatus,
       status: to,
       updatedAt: dbNow(),
       lastActivityAt: dbNow(),
-      ...(to === 'submitted' ? { submittedAt: literal('COALESCE(submitted_at, now())') } : {}),
+      ...(to === 'submitted' ? { submittedAt: keep('submitted_at') } : {}),
       closedAt: to === 'closed' ? dbNow() : null,
-      waitingSince: to === 'submitted' || to === 'in_review' ? literal('COALESCE(waiting_since, now())') : null,
+      waitingSince: to === 'submitted' || to === 'in_review' ? keep('waiting_since') : null,
     },
     { where: { id, status: from }, transaction: t },
   )
@@ -121,12 +87,11 @@ export async function setAssignee(id: string, assigneeId: string | null, expecte
 export async function touchAfterMessage(id: string, by: 'team' | 'listener', t: Transaction) {
   const Case = models().Case
   if (by === 'team') {
-    await Case.update({ lastActivityAt: dbNow(), waitingSince: null, firstResponseAt: literal('COALESCE(first_response_at, now())') }, { where: { id }, transaction: t })
+    await Case.update({ lastActivityAt: dbNow(), waitingSince: null, firstResponseAt: keep('first_response_at') }, { where: { id }, transaction: t })
   } else {
-    await Case.update(
-      { lastActivityAt: dbNow(), waitingSince: literal(`CASE WHEN status IN ('submitted', 'in_review') THEN COALESCE(waiting_since, now()) ELSE waiting_since END`) },
-      { where: { id }, transaction: t },
-    )
+    await Case.update({ lastActivityAt: dbNow() }, { where: { id }, transaction: t })
+    // the wait for the team starts with the listener's message only while the case is the team's to answer
+    await Case.update({ waitingSince: dbNow() }, { where: { id, status: ['submitted', 'in_review'], waitingSince: null }, transaction: t })
   }
 }
 

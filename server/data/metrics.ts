@@ -1,5 +1,7 @@
 import { QueryTypes } from 'sequelize'
 import { db } from '../db/sequelize'
+import { models, type DeskSettingsModel } from '../db/models'
+import { dbNow } from '../db/models/now'
 import type { BusinessHours, Targets } from '../../shared/schemas/metrics'
 import type { CaseStatus } from '../../shared/schemas/case'
 
@@ -30,6 +32,7 @@ export interface Scope {
 
 const select = async <T extends object>(sql: string, bind: unknown[]) => {
   try {
+    // raw SQL: the supervisor's figures (window functions, percentile_cont, working time), one statement each
     return await db().query<T>(sql, { bind, type: QueryTypes.SELECT })
   } catch (e) {
     const reason = (e as { parent?: { message?: string } }).parent?.message
@@ -294,22 +297,19 @@ export async function defaultPeriod(timeZone: string): Promise<{ from: Date; to:
 
 // ----------------------------------------------------------------- settings
 
-export interface SettingsRow {
-  first_response_hours: number; resolution_hours: number; warn_at_percent: number; time_zone: string | null
-  week: BusinessHours['week'] | null; updated_at: Date | null; updated_by: string | null; updated_by_name: string | null
-}
-export async function readSettings(t?: import('sequelize').Transaction): Promise<SettingsRow> {
-  const [row] = await db().query<SettingsRow>(
-    `SELECT s.*, u.name AS updated_by_name FROM desk_settings s LEFT JOIN users u ON u.id = s.updated_by WHERE s.id = 1`,
-    { type: QueryTypes.SELECT, transaction: t },
-  )
+/** The desk's one settings row, with the name of whoever changed it last. */
+export async function readSettings(t?: import('sequelize').Transaction): Promise<DeskSettingsModel> {
+  const row = await models().DeskSettings.findByPk(1, { include: [{ association: 'editor', attributes: ['id', 'name'], required: false }], transaction: t })
+  if (!row) throw new Error('desk_settings has no row 1 (migration 0010 writes it)')
   return row
 }
 export async function writeSettings(t: Targets, by: string, tx: import('sequelize').Transaction): Promise<void> {
-  await db().query(
-    `UPDATE desk_settings SET first_response_hours = $1, resolution_hours = $2, warn_at_percent = $3, time_zone = $4, week = $5::jsonb,
-            updated_at = now(), updated_by = $6 WHERE id = 1`,
-    { bind: [t.firstResponseHours, t.resolutionHours, t.warnAtPercent, t.businessHours?.timeZone ?? null, t.businessHours ? JSON.stringify(t.businessHours.week) : null, by], transaction: tx },
+  await models().DeskSettings.update(
+    {
+      firstResponseHours: t.firstResponseHours, resolutionHours: t.resolutionHours, warnAtPercent: t.warnAtPercent,
+      timeZone: t.businessHours?.timeZone ?? null, week: t.businessHours?.week ?? null, updatedAt: dbNow(), updatedBy: by,
+    },
+    { where: { id: 1 }, transaction: tx },
   )
 }
 

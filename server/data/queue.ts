@@ -3,6 +3,7 @@ import { db } from '../db/sequelize'
 import type { QueueQuery } from '../../shared/schemas/queue'
 import type { CaseStatus, CaseSummary } from '../../shared/schemas/case'
 import { waitingOnTeam } from '../../shared/case-workflow'
+import { toSummary, type SummaryRow } from './case-summary'
 
 // Hand-written SQL, measured faster (bench/queue.ts, README figures): the priority merge below needs
 // expression-index scans with LIMIT per stream, which the ORM cannot say, and named prepared statements
@@ -82,6 +83,7 @@ async function select<T>(sql: string, bind: unknown[]): Promise<T[]> {
   const name = `rw_queue_${createHash('sha1').update(sql).digest('hex').slice(0, 24)}`
   const connection = await pool.getConnection({ type: 'SELECT' })
   try {
+    // raw SQL: the queue's priority merge and full-text search (measured in npm run bench), as named prepared statements
     return (await connection.query({ name, text: sql, values: bind })).rows as T[]
   } finally {
     await pool.releaseConnection(connection)
@@ -214,16 +216,6 @@ export function mergeStreams(rows: Candidate[], m: number, want: number): Candid
   return proved(heads, m, top.length, want, top.at(-1)) ? top : null
 }
 
-interface SummaryRow {
-  id: string; title: string; status: CaseStatus; score: number | null
-  listener_id: string; listener_name: string; assignee_id: string | null; assignee_name: string | null
-  room_id: string; room_name: string; room_revision: number; length: number; width: number; height: number
-  flags: { id: string; severity: string }[] | null
-  created_at: Date; submitted_at: Date | null; waiting_since: Date | null; last_activity_at: Date
-}
-
-const iso = (d: Date | null) => (d ? new Date(d).toISOString() : null)
-
 /** The queue's columns of a case (no description, answers or reply token: a summary only). */
 const summarySql = `SELECT c.id, c.title, c.status, c.score, c.listener_id, l.name AS listener_name, c.assignee_id, a.name AS assignee_name,
             c.room_id, r.name AS room_name, c.room_revision,
@@ -234,21 +226,6 @@ const summarySql = `SELECT c.id, c.title, c.status, c.score, c.listener_id, l.na
        LEFT JOIN users a ON a.id = c.assignee_id
        JOIN rooms r ON r.id = c.room_id
        JOIN room_revisions rr ON rr.room_id = c.room_id AND rr.revision = c.room_revision`
-
-const toSummary = (r: SummaryRow): CaseSummary => ({
-  id: r.id,
-  title: r.title,
-  status: r.status,
-  score: r.score,
-  listener: { id: r.listener_id, name: r.listener_name },
-  assignee: r.assignee_id ? { id: r.assignee_id, name: r.assignee_name ?? '' } : null,
-  room: { id: r.room_id, name: r.room_name, revision: r.room_revision, length: Number(r.length), width: Number(r.width), height: Number(r.height) },
-  flags: r.flags ?? [],
-  createdAt: iso(r.created_at)!,
-  submittedAt: iso(r.submitted_at),
-  waitingSince: iso(r.waiting_since),
-  lastActivityAt: iso(r.last_activity_at)!,
-})
 
 /** The summaries of a page of case ids. */
 async function summaries(ids: string[]): Promise<Map<string, CaseSummary>> {

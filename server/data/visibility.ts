@@ -1,5 +1,5 @@
-import { QueryTypes, type Transaction } from 'sequelize'
-import { db } from '../db/sequelize'
+import type { Transaction } from 'sequelize'
+import { models } from '../db/models'
 
 /**
  * THE visibility rule of a case's thread — the one place that says what the case's listener may see
@@ -38,8 +38,6 @@ export function visibleTo(audience: Audience, kind: keyof typeof sharedWithListe
 
 /** Whether a file is for the team only right now (decides where its live notifications go). */
 export async function fileIsTeamOnly(fileId: string, t?: Transaction): Promise<boolean> {
-  const rows = await db().query<{ shared: boolean }>(`SELECT ${sharedWithListener.file('f')} AS shared FROM files f WHERE f.id = $1`, {
-    bind: [fileId], type: QueryTypes.SELECT, transaction: t,
-  })
-  return !rows[0]?.shared
+  const shared = await models().File.scope({ method: ['visibleTo', 'listener'] }).count({ where: { id: fileId }, transaction: t })
+  return shared === 0
 }

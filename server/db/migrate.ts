@@ -4,6 +4,7 @@ import { fileURLToPath, pathToFileURL } from 'node:url'
 import { Umzug, SequelizeStorage } from 'umzug'
 import type { QueryInterface, Sequelize } from 'sequelize'
 import { db } from './sequelize'
+import { withAdvisoryLock } from './advisory-lock'
 
 const here = dirname(fileURLToPath(import.meta.url))
 export const migrationsDir = join(here, 'migrations')
@@ -32,15 +33,8 @@ export function migrator(sequelize: Sequelize = db()) {
 
 /** Applies every pending migration; safe to call on every start (a lock keeps two processes apart). */
 export async function migrateUp(): Promise<string[]> {
-  const sequelize = db()
   // Serialise concurrent start-ups (several nodes, or parallel test workers) on an advisory lock.
-  await sequelize.query('SELECT pg_advisory_lock(727001)')
-  try {
-    const done = await migrator().up()
-    return done.map((m) => m.name)
-  } finally {
-    await sequelize.query('SELECT pg_advisory_unlock(727001)')
-  }
+  return withAdvisoryLock(727001, async () => (await migrator().up()).map((m) => m.name))
 }
 
 export async function migrateDown(to?: string): Promise<void> {

@@ -142,7 +142,9 @@ export async function ensureDatabase(adminUrl: string, name: string): Promise<vo
   const client = new pg.Client({ connectionString: adminUrl })
   await client.connect()
   try {
+    // raw SQL: a catalogue look-up on the admin connection of the development cluster, before any model exists
     const r = await client.query('SELECT 1 FROM pg_database WHERE datname = $1', [name])
+    // raw SQL: CREATE DATABASE is a server command (its name cannot be a bound parameter)
     if (r.rowCount === 0) await client.query(`CREATE DATABASE "${name.replace(/"/g, '')}"`)
   } finally {
     await client.end()

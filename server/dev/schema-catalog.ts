@@ -32,6 +32,7 @@ const queries: Record<keyof Catalog, string> = {
 export async function readCatalog(s: Sequelize, without: string[] = []): Promise<Catalog> {
   const out = {} as Catalog
   for (const [key, sql] of Object.entries(queries) as [keyof Catalog, string][]) {
+    // raw SQL: PostgreSQL's own catalogues (information_schema, pg_indexes, pg_trigger…), which no model describes
     const rows = await s.query<Record<string, unknown>>(sql, { type: QueryTypes.SELECT })
     out[key] = rows.filter((r) => !without.includes(String(r.table_name ?? r.tablename ?? '')))
   }

@@ -58,6 +58,7 @@ function inTransaction(t: Transaction): PgBoss.Db {
   return {
     executeSql: async (text, values) => {
       // pg-boss leaves unset options undefined; Sequelize's bind wants NULL for those.
+      // raw SQL: pg-boss's own statements (the library hands us their text), run in the caller's transaction
       const rows = await db().query(text, { bind: (values ?? []).map((v) => (v === undefined ? null : v)), transaction: t, type: QueryTypes.SELECT })
       return { rows: rows as unknown[] }
     },

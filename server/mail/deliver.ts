@@ -1,7 +1,9 @@
 import nodemailer, { type Transporter } from 'nodemailer'
-import { QueryTypes } from 'sequelize'
+import { Op, Transaction } from 'sequelize'
 import { config } from '../config'
 import { db } from '../db/sequelize'
+import { models } from '../db/models'
+import { dbNow } from '../db/models/now'
 import { jobs } from '../jobs/queue'
 import { log } from '../lib/log'
 import { DELIVER_QUEUE, DELIVERY_POLICY, MAX_ATTEMPTS, enqueueInTransaction, ensureMailQueues } from './queues'
@@ -51,19 +53,6 @@ export function mailTransport(): Transporter {
   return cached.transport
 }
 
-interface OutboxRow {
-  id: string
-  to_address: string
-  kind: string
-  case_id: string | null
-  subject: string
-  html: string
-  text: string
-  reply_to: string | null
-  status: 'queued' | 'sent' | 'failed'
-  attempts: number
-  message_id: string
-}
 
 const AUTH_CODES = new Set([530, 534, 535, 538])
 /** SMTP 5yz is a permanent refusal (RFC 5321 §4.2.1), except authentication trouble, which is ours to fix. */
@@ -85,13 +74,10 @@ const retryWaitSeconds = (attempt: number) => (DELIVERY_POLICY.retryDelay * 2 **
 export async function deliverOutboxEmail(outboxId: string): Promise<DeliveryOutcome> {
   const sequelize = db()
   const result = await sequelize.transaction(async (t) => {
-    const [row] = await sequelize.query<OutboxRow>('SELECT * FROM email_outbox WHERE id = $1 FOR UPDATE SKIP LOCKED', {
-      bind: [outboxId],
-      transaction: t,
-      type: QueryTypes.SELECT,
-    })
+    const { EmailOutbox } = models()
+    const row = await EmailOutbox.findByPk(outboxId, { transaction: t, lock: Transaction.LOCK.UPDATE, skipLocked: true })
     if (!row) {
-      const [exists] = await sequelize.query('SELECT 1 FROM email_outbox WHERE id = $1', { bind: [outboxId], transaction: t, type: QueryTypes.SELECT })
+      const exists = await EmailOutbox.count({ where: { id: outboxId }, transaction: t })
       return { outcome: (exists ? 'busy' : 'missing') as DeliveryOutcome }
     }
     if (row.status === 'sent') return { outcome: 'already-sent' as const }
@@ -101,26 +87,22 @@ export async function deliverOutboxEmail(outboxId: string): Promise<DeliveryOutc
     try {
       const info = await mailTransport().sendMail({
         from: config().MAIL_FROM,
-        to: row.to_address,
+        to: row.toAddress,
         subject: row.subject,
         html: row.html,
         text: row.text,
-        replyTo: row.reply_to ?? undefined,
-        messageId: row.message_id,
-        references: row.case_id ? `<case-${row.case_id}@${mailDomain()}>` : undefined,
+        replyTo: row.replyTo ?? undefined,
+        messageId: row.messageId,
+        references: row.caseId ? `<case-${row.caseId}@${mailDomain()}>` : undefined,
         headers: { 'Auto-Submitted': 'auto-generated', 'X-Roomwright-Kind': row.kind },
       })
-      await sequelize.query(
-        `UPDATE email_outbox SET status = 'sent', attempts = $2, sent_at = now(), last_error = NULL, smtp_response = $3, updated_at = now() WHERE id = $1`,
-        { bind: [row.id, attempt, String(info.response ?? '').slice(0, 500)], transaction: t },
-      )
+      await row.update({ status: 'sent', attempts: attempt, sentAt: dbNow(), lastError: null, smtpResponse: String(info.response ?? '').slice(0, 500), updatedAt: dbNow() }, { transaction: t })
       return { outcome: 'sent' as const }
     } catch (e) {
       const giveUp = isPermanent(e) || attempt >= MAX_ATTEMPTS
-      await sequelize.query(
-        `UPDATE email_outbox SET status = $2, attempts = $3, last_error = $4, next_attempt_at = now() + make_interval(secs => $5), updated_at = now() WHERE id = $1`,
-        { bind: [row.id, giveUp ? 'failed' : 'queued', attempt, describe(e), giveUp ? 0 : retryWaitSeconds(attempt)], transaction: t },
-      )
+      // next_attempt_at is informational (pg-boss owns the retry): the earliest retry by this clock
+      const next = new Date(Date.now() + (giveUp ? 0 : retryWaitSeconds(attempt)) * 1000)
+      await row.update({ status: giveUp ? 'failed' : 'queued', attempts: attempt, lastError: describe(e), nextAttemptAt: next, updatedAt: dbNow() }, { transaction: t })
       if (giveUp) {
         log.error('e-mail not delivered, giving up', { outboxId, attempt, err: describe(e) })
         return { outcome: 'failed' as const }
@@ -142,24 +124,25 @@ const LIVE_STATES = new Set(['created', 'retry', 'active'])
  */
 export async function sweepOutbox(opts: { quietSeconds?: number; limit?: number } = {}): Promise<{ checked: number; requeued: number }> {
   const sequelize = db()
-  const rows = await sequelize.query<{ id: string; job_id: string | null }>(
-    `SELECT id, job_id FROM email_outbox WHERE status = 'queued' AND updated_at < now() - make_interval(secs => $1) ORDER BY created_at LIMIT $2`,
-    { bind: [opts.quietSeconds ?? 120, opts.limit ?? 200], type: QueryTypes.SELECT },
-  )
+  const { EmailOutbox } = models()
+  const quiet = new Date(Date.now() - (opts.quietSeconds ?? 120) * 1000)
+  const rows = await EmailOutbox.findAll({
+    attributes: ['id', 'jobId'], where: { status: 'queued', updatedAt: { [Op.lt]: quiet } }, order: [['createdAt', 'ASC']], limit: opts.limit ?? 200,
+  })
   if (!rows.length) return { checked: 0, requeued: 0 }
   await ensureMailQueues()
   const boss = await jobs()
   let requeued = 0
   for (const row of rows) {
-    const job = row.job_id ? await boss.getJobById(DELIVER_QUEUE, row.job_id) : null
+    const job = row.jobId ? await boss.getJobById(DELIVER_QUEUE, row.jobId) : null
     if (job && LIVE_STATES.has(job.state)) continue
     await sequelize.transaction(async (t) => {
       const jobId = await enqueueInTransaction(DELIVER_QUEUE, { outboxId: row.id }, t)
-      const updated = await sequelize.query(
-        `UPDATE email_outbox SET job_id = $2, updated_at = now() WHERE id = $1 AND status = 'queued' AND job_id IS NOT DISTINCT FROM $3::uuid RETURNING id`,
-        { bind: [row.id, jobId, row.job_id], transaction: t, type: QueryTypes.SELECT },
+      const [updated] = await EmailOutbox.update(
+        { jobId, updatedAt: dbNow() },
+        { where: { id: row.id, status: 'queued', jobId: row.jobId }, transaction: t },
       )
-      if (!updated.length) throw new Error('raced')
+      if (!updated) throw new Error('raced')
     }).then(
       () => requeued++,
       (e) => { if ((e as Error).message !== 'raced') throw e },

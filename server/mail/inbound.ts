@@ -1,8 +1,7 @@
 import { timingSafeEqual } from 'node:crypto'
 import { JSDOM } from 'jsdom'
-import { QueryTypes } from 'sequelize'
 import { config } from '../config'
-import { db } from '../db/sequelize'
+import { models } from '../db/models'
 import { AppError } from '../errors'
 import { log } from '../lib/log'
 import { receiveEmailReply } from '../services/messages'
@@ -22,9 +21,28 @@ export interface InboundEmail {
   html?: string
   /** The Auto-Submitted header when known (RFC 3834); anything but "no" marks an automatic reply. */
   autoSubmitted?: string
+  /**
+   * The receiving mail server's verdict on the sender, as an Authentication-Results header value
+   * (RFC 8601), when the provider passes it on. A From address is only a claim (RFC 5322 lets anyone
+   * write any): a reply whose DMARC check failed, or whose SPF failed with no passing DKIM signature,
+   * is held for the team like one from a stranger.
+   */
+  authenticationResults?: string
 }
 
-export type InboundRejection = 'no_reply_address' | 'unknown_token' | 'sender_mismatch' | 'auto_reply' | 'empty_reply' | `case_${string}`
+/**
+ * Whether an Authentication-Results value (RFC 8601 §2.2: `authserv-id; method=result …`) says the
+ * sender is forged: dmarc=fail (RFC 7489), or spf=fail (RFC 7208 §2.6.4) without any dkim=pass (RFC 6376).
+ * No value, or only neutral/none/softfail results, is not a failure (many providers pass nothing).
+ */
+export function senderFailsAuthentication(results: string | undefined): boolean {
+  if (!results) return false
+  const verdicts = [...results.toLowerCase().matchAll(/\b(dmarc|spf|dkim)\s*=\s*([a-z]+)/g)].map((m) => `${m[1]}=${m[2]}`)
+  if (verdicts.includes('dmarc=fail')) return true
+  return verdicts.includes('spf=fail') && !verdicts.includes('dkim=pass')
+}
+
+export type InboundRejection = 'no_reply_address' | 'unknown_token' | 'sender_mismatch' | 'sender_unverified' | 'listener_inactive' | 'auto_reply' | 'empty_reply' | `case_${string}`
 export type InboundResult = { accepted: true; caseId: string; messageId?: string } | { accepted: false; reason: InboundRejection }
 export type AppendReply = (input: { caseId: string; userId: string; body: string }) => Promise<{ id?: string } | unknown>
 
@@ -120,10 +138,12 @@ export function htmlToReplyText(html: string): string {
 // ---------------------------------------------------------------- handling
 
 async function logInbound(via: 'smtp' | 'webhook', mail: InboundEmail, status: 'accepted' | 'rejected', reason: string | null, caseId: string | null) {
-  await db().query(
-    'INSERT INTO inbound_email_log (via, status, reason, to_address, from_address, subject, case_id) VALUES ($1, $2, $3, $4, $5, $6, $7)',
-    { bind: [via, status, reason, (Array.isArray(mail.to) ? mail.to.join(', ') : String(mail.to ?? '')).slice(0, 2000), String(mail.from ?? '').slice(0, 500), (mail.subject ?? '').slice(0, 500), caseId] },
-  )
+  await models().InboundEmailLog.create({
+    via, status, reason, caseId,
+    toAddress: (Array.isArray(mail.to) ? mail.to.join(', ') : String(mail.to ?? '')).slice(0, 2000),
+    fromAddress: String(mail.from ?? '').slice(0, 500),
+    subject: (mail.subject ?? '').slice(0, 500),
+  })
   if (status === 'rejected') log.warn('inbound e-mail rejected', { via, reason, from: mail.from })
 }
 
@@ -132,11 +152,13 @@ async function logInbound(via: 'smtp' | 'webhook', mail: InboundEmail, status: '
  * listener. It is kept on the case as an internal note (staff only, ../data/visibility.ts) with an
  * internal history entry, so the advisor sees it and can decide what to do.
  */
-async function holdForTeam(caseId: string, mail: InboundEmail, sender: string | null): Promise<void> {
+async function holdForTeam(caseId: string, mail: InboundEmail, sender: string | null, why: 'stranger' | 'unverified' = 'stranger'): Promise<void> {
   const text = stripQuotedReply(mail.text?.trim() ? mail.text : mail.html ? htmlToReplyText(mail.html) : '').slice(0, 4000)
   const from = (sender ?? String(mail.from ?? '')).slice(0, 200).replace(/[`\r\n]/g, ' ')
   const body = [
-    `**E-mail held for the team.** A reply to this case's address came from \`${from || 'an unknown sender'}\`, which is not the listener's address, so it was not added as the listener's message.`,
+    why === 'stranger'
+      ? `**E-mail held for the team.** A reply to this case's address came from \`${from || 'an unknown sender'}\`, which is not the listener's address, so it was not added as the listener's message.`
+      : `**E-mail held for the team.** A reply to this case's address claims to come from the listener (\`${from}\`), but the receiving mail server found the sender forged (SPF/DMARC failed), so it was not added as the listener's message.`,
     mail.subject ? `Subject: ${mail.subject.slice(0, 300).replace(/[\r\n]+/g, ' ')}` : '',
     text ? text.split('\n').map((l) => `> ${l}`).join('\n') : '_(no text)_',
   ].filter(Boolean).join('\n\n')
@@ -172,16 +194,23 @@ export async function handleInboundEmail(mail: InboundEmail, opts: { via?: 'smtp
 
   const token = extractReplyToken(mail.to)
   if (!token) return reject('no_reply_address')
-  const [c] = await db().query<{ id: string; reply_token: string; listener_id: string; listener_email: string }>(
-    'SELECT c.id, c.reply_token, c.listener_id, u.email AS listener_email FROM cases c JOIN users u ON u.id = c.listener_id WHERE c.reply_token = $1',
-    { bind: [token], type: QueryTypes.SELECT },
-  )
-  if (!c || !sameToken(c.reply_token, token)) return reject('unknown_token')
+  const c = await models().Case.findOne({
+    attributes: ['id', 'replyToken', 'listenerId'],
+    where: { replyToken: token },
+    include: [{ association: 'listener', attributes: ['email', 'active'], required: true }],
+  })
+  if (!c || !sameToken(c.replyToken, token)) return reject('unknown_token')
   const sender = parseAddress(mail.from ?? '')
-  if (!sender || sender !== c.listener_email.toLowerCase()) {
+  if (!sender || sender !== c.listener!.email.toLowerCase()) {
     await holdForTeam(c.id, mail, sender)
     return reject('sender_mismatch', c.id)
   }
+  if (senderFailsAuthentication(mail.authenticationResults)) {
+    await holdForTeam(c.id, mail, sender, 'unverified')
+    return reject('sender_unverified', c.id)
+  }
+  // a switched-off account may not write through the web, so not by e-mail either
+  if (!c.listener!.active) return reject('listener_inactive', c.id)
   if (mail.autoSubmitted && mail.autoSubmitted.trim().toLowerCase() !== 'no') return reject('auto_reply', c.id)
 
   const source = mail.text?.trim() ? mail.text : mail.html ? htmlToReplyText(mail.html) : ''
@@ -192,7 +221,7 @@ export async function handleInboundEmail(mail: InboundEmail, opts: { via?: 'smtp
 
   let appended: unknown
   try {
-    appended = await append({ caseId: c.id, userId: c.listener_id, body })
+    appended = await append({ caseId: c.id, userId: c.listenerId, body })
   } catch (e) {
     if (e instanceof AppError && e.status < 500) return reject(`case_${e.code}`.slice(0, 40) as InboundRejection, c.id)
     throw e

@@ -1,5 +1,6 @@
 import { QueryTypes } from 'sequelize'
 import { db } from '../db/sequelize'
+import { models } from '../db/models'
 
 /** A message the local fake SMTP server received, as the mailbox page shows it. */
 export interface MailboxMessage {
@@ -16,11 +17,9 @@ export interface MailboxMessage {
 }
 
 export async function storeReceived(m: Omit<MailboxMessage, 'id' | 'receivedAt'>): Promise<number> {
-  const [row] = await db().query<{ id: string }>(
-    `INSERT INTO dev_mailbox (message_id, envelope_from, envelope_to, subject, text, html, headers, raw_size)
-     VALUES ($1, $2, $3, $4, $5, $6, $7, $8) RETURNING id`,
-    { bind: [m.messageId, m.envelopeFrom, m.envelopeTo, m.subject, m.text, m.html, JSON.stringify(m.headers), m.rawSize], type: QueryTypes.SELECT },
-  )
+  const row = await models().DevMailbox.create({
+    messageId: m.messageId, envelopeFrom: m.envelopeFrom, envelopeTo: m.envelopeTo, subject: m.subject, text: m.text, html: m.html, headers: m.headers, rawSize: m.rawSize,
+  })
   return Number(row.id)
 }
 
@@ -39,6 +38,7 @@ interface Row {
 
 /** Newest first; `to` filters on an envelope recipient (exact, any letter case). */
 export async function listMailbox(opts: { limit?: number; before?: number; to?: string } = {}): Promise<MailboxMessage[]> {
+  // raw SQL: a case-insensitive match against any element of a text[] column (unnest) has no ORM form
   const rows = await db().query<Row>(
     `SELECT * FROM dev_mailbox
       WHERE ($1::bigint IS NULL OR id < $1)

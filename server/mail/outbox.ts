@@ -1,8 +1,9 @@
 import { randomUUID } from 'node:crypto'
-import { QueryTypes, type Transaction } from 'sequelize'
+import { Op, col, fn, where, type Transaction } from 'sequelize'
 import { z } from 'zod'
 import { config } from '../config'
 import { db } from '../db/sequelize'
+import { models } from '../db/models'
 import { CASE_KINDS, ESSENTIAL_KINDS, canonicalVars, renderEmail, type EmailKind } from './templates'
 import { DELIVER_QUEUE, enqueueInTransaction, ensureMailQueues } from './queues'
 
@@ -45,29 +46,24 @@ export async function queueEmail(input: QueueEmailInput, opts: { transaction?: T
   if (!opts.transaction) return db().transaction((t) => queueEmail(input, { transaction: t }))
   const t = opts.transaction
   const to = address.parse(input.to)
-  const sequelize = db()
+  const { User, Case, EmailOutbox } = models()
 
-  const [user] = await sequelize.query<{ id: string; name: string; email_optional: boolean }>(
-    input.toUserId
-      ? 'SELECT id, name, email_optional FROM users WHERE id = $1'
-      : 'SELECT id, name, email_optional FROM users WHERE lower(email) = lower($1)',
-    { bind: [input.toUserId ?? to], transaction: t, type: QueryTypes.SELECT },
-  )
+  const user = await User.findOne({
+    attributes: ['id', 'name', 'emailOptional'],
+    where: input.toUserId ? { id: input.toUserId } : where(fn('lower', col('email')), Op.eq, fn('lower', to)),
+    transaction: t,
+  })
   if (input.toUserId && !user) throw new Error(`cannot e-mail user ${input.toUserId}: there is no such user`)
-  if (user && !user.email_optional && !ESSENTIAL_KINDS.has(input.kind)) return { queued: false, reason: 'opted_out' }
+  if (user && !user.emailOptional && !ESSENTIAL_KINDS.has(input.kind)) return { queued: false, reason: 'opted_out' }
 
   let replyToken = input.replyToken
   const fromCase: Record<string, unknown> = {}
   if (input.caseId) {
-    const [c] = await sequelize.query<{ title: string; reply_token: string }>('SELECT title, reply_token FROM cases WHERE id = $1', {
-      bind: [input.caseId],
-      transaction: t,
-      type: QueryTypes.SELECT,
-    })
+    const c = await Case.findByPk(input.caseId, { attributes: ['title', 'replyToken'], transaction: t })
     if (!c) throw new Error(`cannot e-mail about case ${input.caseId}: there is no such case`)
     fromCase.caseId = input.caseId
     fromCase.caseTitle = c.title
-    replyToken ??= c.reply_token
+    replyToken ??= c.replyToken
   }
   if (CASE_KINDS.has(input.kind) && !input.caseId) throw new TypeError(`a ${input.kind} e-mail needs the caseId it is about`)
 
@@ -80,13 +76,9 @@ export async function queueEmail(input: QueueEmailInput, opts: { transaction?: T
 
   await ensureMailQueues()
   const jobId = await enqueueInTransaction(DELIVER_QUEUE, { outboxId: id }, t)
-  await sequelize.query(
-    `INSERT INTO email_outbox (id, to_address, to_user_id, kind, case_id, subject, html, text, reply_to, message_id, job_id)
-     VALUES ($1, $2, $3, $4, $5, $6, $7, $8, $9, $10, $11)`,
-    {
-      bind: [id, to, user?.id ?? null, input.kind, input.caseId ?? null, rendered.subject, rendered.html, rendered.text, replyTo, messageId, jobId],
-      transaction: t,
-    },
+  await EmailOutbox.create(
+    { id, toAddress: to, toUserId: user?.id ?? null, kind: input.kind, caseId: input.caseId ?? null, subject: rendered.subject, html: rendered.html, text: rendered.text, replyTo, messageId, jobId },
+    { transaction: t },
   )
   return { queued: true, id, messageId, jobId }
 }

@@ -45,9 +45,14 @@ export function authRouter(): Router {
     })
   })
 
-  // Signed in, with the current password; the other sessions of the account end.
-  router.post('/password', requireSignedIn, limiter, validate(changePasswordSchema), async (req, res) =>
-    res.json(await changePassword(currentUser(req), req.sessionID, res.locals.body)))
+  // Signed in, with the current password; the other sessions of the account end, and this one goes on
+  // under a new id (OWASP session management: renew the id on a change of credentials, so an id that
+  // was fixed or copied before the change is worth nothing after it).
+  router.post('/password', requireSignedIn, limiter, validate(changePasswordSchema), async (req, res) => {
+    const result = await changePassword(currentUser(req), req.sessionID, res.locals.body)
+    await signIn(req, currentUser(req))
+    res.json(result)
+  })
   // "Forgot password?": the same 202 and body for every address, answered before any lookup.
   router.post('/password-reset/request', resetLimiter, validate(passwordResetRequestSchema), (_req, res) => {
     startPasswordReset(res.locals.body.email)

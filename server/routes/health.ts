@@ -5,7 +5,7 @@ export function healthRouter(): Router {
   const router = Router()
   router.get('/', async (_req, res) => {
     try {
-      await db().query('SELECT 1')
+      await db().authenticate()
       res.json({ ok: true, db: 'up' })
     } catch {
       res.status(503).json({ ok: false, db: 'down' })

@@ -1,6 +1,8 @@
 import { createHash, timingSafeEqual } from 'node:crypto'
 import { Router, type RequestHandler } from 'express'
 import { z } from 'zod'
+import { rateLimit } from 'express-rate-limit'
+import { PostgresRateLimitStore } from '../middleware/rate-limit-store'
 import { config } from '../config'
 import { AppError, notFound } from '../errors'
 import { requireRole } from '../middleware/guards'
@@ -20,6 +22,21 @@ const requireInboundSecret: RequestHandler = (req, _res, next) => {
   next()
 }
 
+/**
+ * Wrong or missing secrets per client address, counted in PostgreSQL across nodes (LOGIN_RATE_LIMIT in
+ * SIGN_IN_WINDOW_MINUTES): only 401s count, so a provider posting with the right secret is never limited.
+ */
+const inboundSecretFailures = () => rateLimit({
+  store: new PostgresRateLimitStore('inbound-secret'),
+  windowMs: config().SIGN_IN_WINDOW_MINUTES * 60_000,
+  limit: config().LOGIN_RATE_LIMIT,
+  standardHeaders: 'draft-8',
+  legacyHeaders: false,
+  skipSuccessfulRequests: true,
+  requestWasSuccessful: (_req, res) => res.statusCode !== 401,
+  handler: (_req, _res, next) => next(new AppError('Too many requests with a wrong inbound secret; wait a few minutes', { status: 429, code: 'rate_limited' })),
+})
+
 /** The mailbox exists only while the local fake SMTP server is in use. */
 const fakeSmtpOnly: RequestHandler = (_req, _res, next) => next(config().FAKE_SMTP === 'on' ? undefined : notFound('The mailbox'))
 
@@ -36,14 +53,18 @@ const inboundBody = z.object({
   subject: z.string().max(1000).default(''),
   text: z.string().max(1_000_000).optional(),
   html: z.string().max(2_000_000).optional(),
+  /** the receiving server's Authentication-Results (RFC 8601), when the provider passes it on */
+  authenticationResults: z.string().max(4000).optional(),
 })
 
 /** Rejections the sender cannot fix by retrying: who may write is refused (403), what was written is unusable (422). */
-const rejectionStatus = (reason: string) => (reason === 'unknown_token' || reason === 'sender_mismatch' || reason === 'no_reply_address' ? 403 : 422)
+const rejectionStatus = (reason: string) => (reason === 'unknown_token' || reason === 'sender_mismatch' || reason === 'sender_unverified' || reason === 'no_reply_address' || reason === 'listener_inactive' ? 403 : 422)
 const rejectionMessage: Record<string, string> = {
   no_reply_address: 'No recipient is a case reply address',
   unknown_token: 'The reply address matches no case',
   sender_mismatch: 'The sender is not the listener of this case',
+  sender_unverified: 'The receiving mail server found the sender forged (SPF/DMARC failed)',
+  listener_inactive: 'The listener\'s account is switched off',
   auto_reply: 'Automatic replies are not added to cases',
   empty_reply: 'Nothing was left once the quoted history was removed',
 }
@@ -51,12 +72,13 @@ const rejectionMessage: Record<string, string> = {
 /** Mounted at /api: GET /dev/mailbox (supervisors, fake SMTP only) and POST /inbound/email (shared secret). */
 export function mailRouter(): Router {
   const router = Router()
+  const secretFailures = inboundSecretFailures()
 
   router.get('/dev/mailbox', fakeSmtpOnly, requireRole('supervisor'), validate(mailboxQuery, 'query'), async (_req, res) => {
     res.json({ messages: await listMailbox(res.locals.query) })
   })
 
-  router.post('/inbound/email', requireInboundSecret, validate(inboundBody), async (_req, res) => {
+  router.post('/inbound/email', secretFailures, requireInboundSecret, validate(inboundBody), async (_req, res) => {
     const result = await handleInboundEmail(res.locals.body, { via: 'webhook' })
     if (!result.accepted) {
       throw new AppError(rejectionMessage[result.reason] ?? 'The case did not accept this message', { status: rejectionStatus(result.reason), code: result.reason })

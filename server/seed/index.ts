@@ -3,6 +3,7 @@ import { dirname, join } from 'node:path'
 import { fileURLToPath, pathToFileURL } from 'node:url'
 import { Umzug, SequelizeStorage } from 'umzug'
 import { db } from '../db/sequelize'
+import { withAdvisoryLock } from '../db/advisory-lock'
 
 const stepsDir = join(dirname(fileURLToPath(import.meta.url)), 'steps')
 
@@ -23,10 +24,5 @@ export async function seedDemo(): Promise<string[]> {
     storage: new SequelizeStorage({ sequelize, tableName: 'demo_seeds' }),
     logger: undefined,
   })
-  await sequelize.query('SELECT pg_advisory_lock(727002)')
-  try {
-    return (await umzug.up()).map((m) => m.name)
-  } finally {
-    await sequelize.query('SELECT pg_advisory_unlock(727002)')
-  }
+  return withAdvisoryLock(727002, async () => (await umzug.up()).map((m) => m.name))
 }

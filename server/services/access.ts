@@ -2,8 +2,8 @@ import { findCase } from '../data/cases'
 import { findRoom } from '../data/rooms'
 import { notFound } from '../errors'
 import type { User } from '../../shared/schemas/auth'
-import { QueryTypes, type Transaction } from 'sequelize'
-import { db } from '../db/sequelize'
+import { Op, type Transaction } from 'sequelize'
+import { models } from '../db/models'
 import type { Audience } from '../data/visibility'
 
 const UUID = /^[0-9a-f]{8}-[0-9a-f]{4}-[0-9a-f]{4}-[0-9a-f]{4}-[0-9a-f]{12}$/i
@@ -37,14 +37,11 @@ export async function readableRoom(user: User, roomId: string, revision?: number
   if (!room) throw notFound('That room')
   if (room.ownerId === user.id) return room
   if (isStaff(user)) {
-    const [{ sent }] = await db().query<{ sent: number[] }>(
-      `SELECT array(
-         SELECT c.room_revision FROM cases c WHERE c.room_id = $1 AND c.status <> 'draft'
-          UNION
-         SELECT ts.room_revision FROM triage_snapshots ts JOIN cases c ON c.id = ts.case_id WHERE c.room_id = $1 AND c.status <> 'draft'
-          ORDER BY 1) AS sent`,
-      { bind: [roomId], type: QueryTypes.SELECT },
-    )
+    const cases = await models().Case.findAll({
+      attributes: ['id', 'roomRevision'], where: { roomId, status: { [Op.ne]: 'draft' } },
+      include: [{ association: 'triages', attributes: ['id', 'roomRevision'], required: false }],
+    })
+    const sent = [...new Set(cases.flatMap((c) => [c.roomRevision, ...(c.triages ?? []).map((s) => s.roomRevision)]))].sort((a, b) => a - b)
     // the list of revisions shows the team only the sent ones too
     if (sent.includes(room.revision)) return { ...room, revisions: sent }
   }

@@ -34,8 +34,10 @@ export async function verifyCredentials(email: string, password: string): Promis
 
 export async function registerListener(input: RegisterInput): Promise<User> {
   assertStrongPassword(input.password, [input.email, input.name])
+  // hashed before the lookup, so a taken address answers no faster than a free one (the timing would tell who has an account)
+  const passwordHash = await hashPassword(input.password)
   if (await findUserByEmail(input.email)) throw conflict('An account with that e-mail already exists', 'email_taken')
-  return toPublicUser(await insertUser({ email: input.email, name: input.name, role: 'listener', passwordHash: await hashPassword(input.password) }))
+  return toPublicUser(await insertUser({ email: input.email, name: input.name, role: 'listener', passwordHash }))
 }
 
 

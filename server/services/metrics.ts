@@ -18,12 +18,12 @@ const round = (v: number | null, digits = 2) => (v === null ? null : Math.round(
 export async function getTargets(): Promise<TargetsResponse> {
   const s = await data.readSettings()
   return {
-    firstResponseHours: Number(s.first_response_hours),
-    resolutionHours: Number(s.resolution_hours),
-    warnAtPercent: s.warn_at_percent,
-    businessHours: s.time_zone && s.week ? { timeZone: s.time_zone, week: s.week } : null,
-    updatedAt: s.updated_at ? iso(s.updated_at) : null,
-    updatedBy: s.updated_by ? { id: s.updated_by, name: s.updated_by_name ?? '' } : null,
+    firstResponseHours: Number(s.firstResponseHours),
+    resolutionHours: Number(s.resolutionHours),
+    warnAtPercent: s.warnAtPercent,
+    businessHours: s.timeZone && s.week ? { timeZone: s.timeZone, week: s.week } : null,
+    updatedAt: s.updatedAt ? iso(s.updatedAt) : null,
+    updatedBy: s.updatedBy ? { id: s.updatedBy, name: s.editor?.name ?? '' } : null,
   }
 }
 

@@ -1,5 +1,6 @@
-import { QueryTypes, type Transaction } from 'sequelize'
-import { db } from '../db/sequelize'
+import { Op, col, fn, type Transaction } from 'sequelize'
+import { models, type ReplySnippetModel } from '../db/models'
+import { dbNow } from '../db/models/now'
 import { withTransaction } from '../db/transaction'
 import { conflict, notFound } from '../errors'
 import { fillPlaceholders, type Snippet, type SnippetInput, type SnippetPlaceholder, type SnippetScope, type SnippetUpdate } from '../../shared/schemas/snippet'
@@ -10,16 +11,15 @@ import { latestTriage } from './triage'
 
 export type { Snippet }
 
-interface SnippetRow { id: string; title: string; body: string; scope: SnippetScope; created_by: string | null; author_name: string | null; updated_at: Date }
-const rowToSnippet = (r: SnippetRow): Snippet => ({
+const toSnippet = (r: ReplySnippetModel): Snippet => ({
   id: r.id, title: r.title, body: r.body, scope: r.scope,
-  author: r.created_by ? { id: r.created_by, name: r.author_name ?? '' } : null,
-  updatedAt: new Date(r.updated_at).toISOString(),
+  author: r.createdBy ? { id: r.createdBy, name: r.author?.name ?? '' } : null,
+  updatedAt: new Date(r.updatedAt).toISOString(),
 })
-const select = (sql: string, bind: unknown[], t?: Transaction) => db().query<SnippetRow>(sql, { bind, type: QueryTypes.SELECT, transaction: t })
-const snippetSelect = 'SELECT s.id, s.title, s.body, s.scope, s.created_by, u.name AS author_name, s.updated_at FROM reply_snippets s LEFT JOIN users u ON u.id = s.created_by'
+const withAuthor = { include: [{ association: 'author', attributes: ['id', 'name'], required: false }] }
 /** The one visibility rule: the team's snippets and the user's own personal ones. Someone else's personal snippet does not exist for them. */
-const visibleTo = "(s.scope = 'team' OR s.created_by = $1)"
+const visibleTo = (user: User) => ({ [Op.or]: [{ scope: 'team' }, { createdBy: user.id }] })
+const reload = async (id: string, t: Transaction) => toSnippet((await models().ReplySnippet.findByPk(id, { ...withAuthor, transaction: t }))!)
 
 const duplicate = (e: unknown) => (e as { parent?: { code?: string } }).parent?.code === '23505'
 const duplicateError = (scope: SnippetScope) =>
@@ -27,12 +27,13 @@ const duplicateError = (scope: SnippetScope) =>
 
 /** The team's snippets and the user's own, by title. */
 export async function listSnippets(user: User): Promise<Snippet[]> {
-  return (await select(`${snippetSelect} WHERE ${visibleTo} ORDER BY lower(s.title), s.scope`, [user.id])).map(rowToSnippet)
+  const rows = await models().ReplySnippet.findAll({ ...withAuthor, where: visibleTo(user), order: [[fn('lower', col('title')), 'ASC'], ['scope', 'ASC']] })
+  return rows.map(toSnippet)
 }
 
 /** A snippet the user may change, locked for the change; 404 for unknown ids and for colleagues' personal snippets alike. */
-async function changeable(user: User, id: string, t: Transaction): Promise<SnippetRow> {
-  const [row] = await select(`${snippetSelect} WHERE s.id = $2 AND ${visibleTo} FOR UPDATE OF s`, [user.id, id], t)
+async function changeable(user: User, id: string, t: Transaction): Promise<ReplySnippetModel> {
+  const row = /^[0-9a-f-]{36}$/i.test(id) ? await models().ReplySnippet.findOne({ where: { id, ...visibleTo(user) }, transaction: t, lock: t.LOCK.UPDATE }) : null
   if (!row) throw notFound('That snippet')
   return row
 }
@@ -41,13 +42,9 @@ export async function createSnippet(user: User, input: SnippetInput): Promise<Sn
   const scope = input.scope ?? 'personal'
   try {
     return await withTransaction(async (t) => {
-      const [row] = await select(
-        `WITH s AS (INSERT INTO reply_snippets (title, body, scope, created_by) VALUES ($1, $2, $3, $4) RETURNING *)
-         SELECT s.id, s.title, s.body, s.scope, s.created_by, u.name AS author_name, s.updated_at FROM s LEFT JOIN users u ON u.id = s.created_by`,
-        [input.title, input.body, scope, user.id], t,
-      )
+      const row = await models().ReplySnippet.create({ title: input.title, body: input.body, scope, createdBy: user.id }, { transaction: t })
       if (scope === 'team') await recordAudit({ actorId: user.id, action: 'snippet.team_created', details: { snippetId: row.id, title: row.title } }, t)
-      return rowToSnippet(row)
+      return reload(row.id, t)
     })
   } catch (e) {
     if (duplicate(e)) throw duplicateError(scope)
@@ -62,15 +59,15 @@ export async function updateSnippet(user: User, id: string, input: SnippetUpdate
     return await withTransaction(async (t) => {
       const before = await changeable(user, id, t)
       scope = before.scope
-      await db().query('UPDATE reply_snippets SET title = $2, body = $3, updated_at = now() WHERE id = $1', { bind: [id, input.title, input.body], transaction: t })
+      const earlier = { title: before.title, body: before.body }
+      await before.update({ title: input.title, body: input.body, updatedAt: dbNow() }, { transaction: t })
       if (before.scope === 'team') {
         await recordAudit({
           actorId: user.id, action: 'snippet.team_changed',
-          details: { snippetId: id, title: input.title, before: { title: before.title, body: before.body }, authorId: before.created_by },
+          details: { snippetId: id, title: input.title, before: earlier, authorId: before.createdBy },
         }, t)
       }
-      const [row] = await select(`${snippetSelect} WHERE s.id = $1`, [id], t)
-      return rowToSnippet(row)
+      return reload(id, t)
     })
   } catch (e) {
     if (duplicate(e)) throw duplicateError(scope)
@@ -82,9 +79,9 @@ export async function updateSnippet(user: User, id: string, input: SnippetUpdate
 export async function deleteSnippet(user: User, id: string): Promise<void> {
   await withTransaction(async (t) => {
     const row = await changeable(user, id, t)
-    await db().query('DELETE FROM reply_snippets WHERE id = $1', { bind: [id], transaction: t })
+    await row.destroy({ transaction: t })
     if (row.scope === 'team') {
-      await recordAudit({ actorId: user.id, action: 'snippet.team_deleted', details: { snippetId: id, title: row.title, body: row.body, authorId: row.created_by } }, t)
+      await recordAudit({ actorId: user.id, action: 'snippet.team_deleted', details: { snippetId: id, title: row.title, body: row.body, authorId: row.createdBy } }, t)
     }
   })
 }
@@ -93,7 +90,7 @@ export async function deleteSnippet(user: User, id: string): Promise<void> {
 export async function placeholderValues(user: User, caseId: string): Promise<Partial<Record<SnippetPlaceholder, string>>> {
   const c = await readableCase(user, caseId)
   const triage = await latestTriage(caseId)
-  const [listener] = await db().query<{ name: string }>('SELECT name FROM users WHERE id = $1', { bind: [c.listenerId], type: QueryTypes.SELECT })
+  const listener = await models().User.findByPk(c.listenerId, { attributes: ['name'] })
   const modes = (triage?.modes ?? []) as { kind: string; hz: number }[]
   const firstAxial = modes.find((m) => m.kind === 'axial')
   const schroeder = (triage?.reverberation as { schroederHz?: number } | undefined)?.schroederHz

@@ -1,7 +1,8 @@
 import { assertStrongPassword } from '../auth/password-strength'
 import { createHash, randomBytes } from 'node:crypto'
-import { QueryTypes, type Transaction } from 'sequelize'
-import { db } from '../db/sequelize'
+import { Op, col, fn, where, type Transaction, type WhereOptions } from 'sequelize'
+import { models, type AuditLogModel, type TeamInvitationModel, type UserModel } from '../db/models'
+import { dbNow } from '../db/models/now'
 import { withTransaction } from '../db/transaction'
 import { insertEvent } from '../data/events'
 import { AppError, conflict, forbidden, notFound } from '../errors'
@@ -18,7 +19,6 @@ import type {
 /** How long an invitation link works. */
 export const INVITATION_HOURS = 72
 
-const select = <T extends object>(sql: string, bind: unknown[], t?: Transaction) => db().query<T>(sql, { bind, type: QueryTypes.SELECT, transaction: t })
 const iso = (d: Date | string) => new Date(d).toISOString()
 /** Only a SHA-256 of the token is stored: a leaked table row cannot be turned back into a working link. */
 export const hashToken = (token: string) => createHash('sha256').update(token).digest('hex')
@@ -27,91 +27,97 @@ export async function recordAudit(
   e: { actorId: string | null; action: AuditAction; targetUserId?: string | null; targetName?: string | null; targetEmail?: string | null; details?: object },
   t?: Transaction,
 ): Promise<void> {
-  await db().query(
-    'INSERT INTO audit_log (actor_id, action, target_user_id, target_name, target_email, details) VALUES ($1, $2, $3, $4, $5, $6)',
-    { bind: [e.actorId, e.action, e.targetUserId ?? null, e.targetName ?? null, e.targetEmail ?? null, JSON.stringify(e.details ?? {})], transaction: t },
+  await models().AuditLog.create(
+    { actorId: e.actorId, action: e.action, targetUserId: e.targetUserId ?? null, targetName: e.targetName ?? null, targetEmail: e.targetEmail ?? null, details: (e.details ?? {}) as Record<string, unknown> },
+    { transaction: t },
   )
 }
 
-interface MemberRow { id: string; name: string; email: string; role: Role; active: boolean; created_at: Date; open_cases: number }
-const toMember = (r: MemberRow): TeamMember => ({ id: r.id, name: r.name, email: r.email, role: r.role as StaffRole, active: r.active, createdAt: iso(r.created_at), openCases: r.open_cases })
-const toAccount = (r: MemberRow): AccountSummary => ({ id: r.id, name: r.name, email: r.email, role: r.role, active: r.active, createdAt: iso(r.created_at), openCases: r.open_cases })
+interface MemberRow { user: UserModel; openCases: number }
+const toMember = ({ user: u, openCases }: MemberRow): TeamMember => ({ id: u.id, name: u.name, email: u.email, role: u.role as StaffRole, active: u.active, createdAt: iso(u.createdAt), openCases })
+const toAccount = ({ user: u, openCases }: MemberRow): AccountSummary => ({ id: u.id, name: u.name, email: u.email, role: u.role, active: u.active, createdAt: iso(u.createdAt), openCases })
+const STAFF = ['advisor', 'supervisor']
+/** A case still being worked on (not a draft, not closed). */
+const OPEN = { [Op.notIn]: ['draft', 'closed'] }
+
+/** Open cases of accounts: assigned to them for staff, their own for listeners. */
+async function withOpenCases(users: UserModel[], t?: Transaction): Promise<MemberRow[]> {
+  const { Case } = models()
+  const counts = new Map<string, number>()
+  for (const key of ['assigneeId', 'listenerId'] as const) {
+    const ids = users.filter((u) => (key === 'listenerId') === (u.role === 'listener')).map((u) => u.id)
+    if (!ids.length) continue
+    const rows = (await Case.count({ where: { [key]: ids, status: OPEN }, group: [key], transaction: t })) as unknown as { [k: string]: string | number }[]
+    for (const r of rows) counts.set(String(r[key]), Number(r.count))
+  }
+  return users.map((user) => ({ user, openCases: counts.get(user.id) ?? 0 }))
+}
 
 export async function listMembers(): Promise<TeamMember[]> {
-  const rows = await select<MemberRow>(
-    `SELECT u.id, u.name, u.email, u.role, u.active, u.created_at,
-            (SELECT count(*)::int FROM cases c WHERE c.assignee_id = u.id AND c.status NOT IN ('draft', 'closed')) AS open_cases
-       FROM users u WHERE u.role IN ('advisor', 'supervisor') ORDER BY u.active DESC, u.name`,
-    [],
-  )
-  return rows.map(toMember)
+  const users = await models().User.findAll({ where: { role: STAFF }, order: [['active', 'DESC'], ['name', 'ASC']] })
+  return (await withOpenCases(users)).map(toMember)
 }
-
-/** Open cases of an account: assigned to it for staff, its own for listeners. */
-const openCasesOf = `(SELECT count(*)::int FROM cases c WHERE (CASE WHEN u.role = 'listener' THEN c.listener_id ELSE c.assignee_id END) = u.id
-                        AND c.status NOT IN ('draft', 'closed'))`
 
 /** One account, locked for a change: staff only (`staff`) or any account, listeners included (`any`). */
 async function account(id: string, who: 'staff' | 'any', t?: Transaction): Promise<MemberRow> {
   const what = who === 'staff' ? 'That team member' : 'That account'
   if (!/^[0-9a-f-]{36}$/i.test(id)) throw notFound(what)
-  const [row] = await select<MemberRow>(
-    `SELECT u.id, u.name, u.email, u.role, u.active, u.created_at, ${openCasesOf} AS open_cases
-       FROM users u WHERE u.id = $1 AND ($2::text = 'any' OR u.role IN ('advisor', 'supervisor')) ${t ? 'FOR UPDATE OF u' : ''}`,
-    [id, who], t,
-  )
-  if (!row) throw notFound(what)
-  return row
+  const user = await models().User.findOne({
+    where: { id, ...(who === 'staff' ? { role: STAFF } : {}) }, transaction: t, ...(t ? { lock: t.LOCK.UPDATE } : {}),
+  })
+  if (!user) throw notFound(what)
+  return (await withOpenCases([user], t))[0]
 }
 const member = (id: string, t?: Transaction) => account(id, 'staff', t)
 
 /** Listener accounts for the people list, by name or e-mail (case-insensitive part of either), paged. */
 export async function listListeners(q: ListenerQuery): Promise<{ listeners: AccountSummary[]; total: number }> {
-  const rows = await select<MemberRow & { total: number }>(
-    `SELECT u.id, u.name, u.email, u.role, u.active, u.created_at, ${openCasesOf} AS open_cases, count(*) OVER ()::int AS total
-       FROM users u
-      WHERE u.role = 'listener' AND ($1::text IS NULL OR u.name ILIKE '%' || $1 || '%' OR u.email ILIKE '%' || $1 || '%')
-        AND ($2::boolean IS NULL OR u.active = $2)
-      ORDER BY u.active DESC, lower(u.name), u.id LIMIT $3 OFFSET $4`,
-    [q.search ? q.search.replace(/[\\%_]/g, (c) => `\\${c}`) : null, q.active ?? null, q.pageSize, (q.page - 1) * q.pageSize],
-  )
-  return { total: rows[0]?.total ?? 0, listeners: rows.map(toAccount) }
+  const like = q.search ? `%${q.search.replace(/[\\%_]/g, (c) => `\\${c}`)}%` : null
+  const { rows, count } = await models().User.findAndCountAll({
+    where: {
+      role: 'listener',
+      ...(like ? { [Op.or]: [{ name: { [Op.iLike]: like } }, { email: { [Op.iLike]: like } }] } : {}),
+      ...(q.active === undefined ? {} : { active: q.active }),
+    },
+    order: [['active', 'DESC'], [fn('lower', col('name')), 'ASC'], ['id', 'ASC']],
+    limit: q.pageSize, offset: (q.page - 1) * q.pageSize,
+  })
+  return { total: count, listeners: (await withOpenCases(rows)).map(toAccount) }
 }
 
 /** Ends every session of an account (rows in the session store) except `keepSid`, and its live sockets from those sessions. */
 export async function endSessions(userId: string, t: Transaction, afterCommit: (cb: () => void) => void, keepSid?: string): Promise<number> {
-  const ended = await select<{ sid: string }>(
-    'DELETE FROM "session" WHERE user_id = $1 AND ($2::text IS NULL OR sid <> $2) RETURNING sid', [userId, keepSid ?? null], t,
-  )
+  const ended = await models().Session.destroy({ where: { userId, ...(keepSid ? { sid: { [Op.ne]: keepSid } } : {}) }, transaction: t })
   afterCommit(() => {
     const op = sockets()?.in(`user:${userId}`)
     if (!op) return
     ;(keepSid ? op.except(`session:${keepSid}`) : op).disconnectSockets(true)
   })
-  return ended.length
+  return ended
 }
 
 // ----------------------------------------------------------------- invitations
 
-interface InvitationRow {
-  id: string; email: string; name: string; role: StaffRole; invited_by: string | null; inviter_name: string | null
-  created_at: Date; expires_at: Date; accepted_at: Date | null; revoked_at: Date | null
-}
-const stateOf = (r: InvitationRow): Invitation['state'] =>
-  r.accepted_at ? 'accepted' : r.revoked_at ? 'revoked' : new Date(r.expires_at) <= new Date() ? 'expired' : 'pending'
-const toInvitation = (r: InvitationRow): Invitation => ({
+const stateOf = (r: TeamInvitationModel): Invitation['state'] =>
+  r.acceptedAt ? 'accepted' : r.revokedAt ? 'revoked' : new Date(r.expiresAt) <= new Date() ? 'expired' : 'pending'
+const toInvitation = (r: TeamInvitationModel): Invitation => ({
   id: r.id, email: r.email, name: r.name, role: r.role,
-  invitedBy: r.invited_by ? { id: r.invited_by, name: r.inviter_name ?? '' } : null,
-  createdAt: iso(r.created_at), expiresAt: iso(r.expires_at), state: stateOf(r),
+  invitedBy: r.invitedBy ? { id: r.invitedBy, name: r.inviter?.name ?? '' } : null,
+  createdAt: iso(r.createdAt), expiresAt: iso(r.expiresAt), state: stateOf(r),
 })
-const invitationSelect = `SELECT i.*, u.name AS inviter_name FROM team_invitations i LEFT JOIN users u ON u.id = i.invited_by`
+const withInviter = { include: [{ association: 'inviter', attributes: ['id', 'name'], required: false }] }
+/** An e-mail address compared as the unique index on users compares it (lower-case). */
+const emailIs = (email: string) => where(fn('lower', col('email')), Op.eq, fn('lower', email))
+const emailTaken = async (email: string, t?: Transaction) => (await models().User.count({ where: emailIs(email), transaction: t })) > 0
+const HOUR = 3_600_000
 
 /** Invitations not yet used, newest first (expired ones stay listed for a week so they can be sent again). */
 export async function listInvitations(): Promise<Invitation[]> {
-  const rows = await select<InvitationRow>(
-    `${invitationSelect} WHERE i.accepted_at IS NULL AND i.revoked_at IS NULL AND i.expires_at > now() - interval '7 days' ORDER BY i.created_at DESC`,
-    [],
-  )
+  const rows = await models().TeamInvitation.findAll({
+    ...withInviter,
+    where: { acceptedAt: null, revokedAt: null, expiresAt: { [Op.gt]: new Date(Date.now() - 7 * 24 * HOUR) } },
+    order: [['createdAt', 'DESC']],
+  })
   return rows.map(toInvitation)
 }
 
@@ -122,35 +128,31 @@ export const setPasswordUrl = (token: string) => `${publicBaseUrl()}/welcome/${t
  * again withdraws the earlier link. The account is created only when the link is used.
  */
 export async function invite(by: User, input: InviteInput): Promise<{ invitation: Invitation; token: string }> {
-  const [taken] = await select<{ id: string }>('SELECT id FROM users WHERE lower(email) = lower($1)', [input.email])
-  if (taken) throw conflict('There is already an account with that e-mail address', 'email_taken')
+  if (await emailTaken(input.email)) throw conflict('There is already an account with that e-mail address', 'email_taken')
   const token = randomBytes(32).toString('base64url')
+  const { TeamInvitation } = models()
   const id = await withTransaction(async (t) => {
-    await db().query(
-      `UPDATE team_invitations SET revoked_at = now() WHERE lower(email) = lower($1) AND accepted_at IS NULL AND revoked_at IS NULL`,
-      { bind: [input.email], transaction: t },
-    )
-    const [row] = await select<{ id: string; expires_at: Date }>(
-      `INSERT INTO team_invitations (email, name, role, token_hash, invited_by, expires_at)
-       VALUES ($1, $2, $3, $4, $5, now() + make_interval(hours => $6)) RETURNING id, expires_at`,
-      [input.email, input.name, input.role, hashToken(token), by.id, INVITATION_HOURS], t,
+    await TeamInvitation.update({ revokedAt: dbNow() }, { where: { [Op.and]: [emailIs(input.email), { acceptedAt: null, revokedAt: null }] }, transaction: t })
+    const row = await TeamInvitation.create(
+      { email: input.email, name: input.name, role: input.role, tokenHash: hashToken(token), invitedBy: by.id, expiresAt: new Date(Date.now() + INVITATION_HOURS * HOUR) },
+      { transaction: t },
     )
     await queueEmail(
-      { to: input.email, kind: 'invitation', vars: { recipientName: input.name, inviterName: by.name, role: input.role, setPasswordUrl: setPasswordUrl(token), expiresAt: row.expires_at } },
+      { to: input.email, kind: 'invitation', vars: { recipientName: input.name, inviterName: by.name, role: input.role, setPasswordUrl: setPasswordUrl(token), expiresAt: row.expiresAt } },
       { transaction: t },
     )
     await recordAudit({ actorId: by.id, action: 'invitation.sent', targetName: input.name, targetEmail: input.email, details: { role: input.role, invitationId: row.id } }, t)
     return row.id
   })
-  const [row] = await select<InvitationRow>(`${invitationSelect} WHERE i.id = $1`, [id])
-  return { invitation: toInvitation(row), token }
+  const row = await TeamInvitation.findByPk(id, withInviter)
+  return { invitation: toInvitation(row!), token }
 }
 
 export async function revokeInvitation(by: User, id: string): Promise<void> {
   if (!/^[0-9a-f-]{36}$/i.test(id)) throw notFound('That invitation')
   await withTransaction(async (t) => {
-    const [row] = await select<InvitationRow>(
-      `UPDATE team_invitations SET revoked_at = now() WHERE id = $1 AND accepted_at IS NULL AND revoked_at IS NULL RETURNING *`, [id], t,
+    const [, [row]] = await models().TeamInvitation.update(
+      { revokedAt: dbNow() }, { where: { id, acceptedAt: null, revokedAt: null }, returning: true, transaction: t },
     )
     if (!row) throw notFound('An open invitation with that id')
     await recordAudit({ actorId: by.id, action: 'invitation.revoked', targetName: row.name, targetEmail: row.email, details: { invitationId: id } }, t)
@@ -159,19 +161,18 @@ export async function revokeInvitation(by: User, id: string): Promise<void> {
 
 const gone = (why: string) => new AppError(why, { status: 410, code: 'link_gone' })
 
-function usable(row: InvitationRow | undefined): InvitationRow {
+function usable(row: TeamInvitationModel | null): TeamInvitationModel {
   if (!row) throw notFound('That invitation link')
-  if (row.accepted_at) throw gone('This invitation link has already been used. Sign in with the password you chose, or ask a supervisor for a new invitation.')
-  if (row.revoked_at) throw gone('This invitation was withdrawn or replaced by a newer one. Use the latest e-mail, or ask a supervisor to invite you again.')
-  if (new Date(row.expires_at) <= new Date()) throw gone(`This invitation link has expired (links work for ${INVITATION_HOURS} hours). Ask a supervisor to send a new one.`)
+  if (row.acceptedAt) throw gone('This invitation link has already been used. Sign in with the password you chose, or ask a supervisor for a new invitation.')
+  if (row.revokedAt) throw gone('This invitation was withdrawn or replaced by a newer one. Use the latest e-mail, or ask a supervisor to invite you again.')
+  if (new Date(row.expiresAt) <= new Date()) throw gone(`This invitation link has expired (links work for ${INVITATION_HOURS} hours). Ask a supervisor to send a new one.`)
   return row
 }
 
 /** What the set-password page shows; 404 for an unknown link, 410 for a used, withdrawn or expired one. */
 export async function previewInvitation(token: string): Promise<InvitationPreview> {
-  const [row] = await select<InvitationRow>(`${invitationSelect} WHERE i.token_hash = $1`, [hashToken(token)])
-  const r = usable(row)
-  return { email: r.email, name: r.name, role: r.role, expiresAt: iso(r.expires_at) }
+  const r = usable(await models().TeamInvitation.findOne({ where: { tokenHash: hashToken(token) } }))
+  return { email: r.email, name: r.name, role: r.role, expiresAt: iso(r.expiresAt) }
 }
 
 /** Uses the link once: creates the account with the chosen password. The caller signs the new user in. */
@@ -179,16 +180,12 @@ export async function acceptInvitation(input: AcceptInvitationInput): Promise<Us
   assertStrongPassword(input.password, input.name ? [input.name] : [])
   const passwordHash = await hashPassword(input.password)
   return withTransaction(async (t) => {
-    const [row] = await select<InvitationRow>(`${invitationSelect} WHERE i.token_hash = $1 FOR UPDATE OF i`, [hashToken(input.token)], t)
-    const inv = usable(row)
-    const [taken] = await select<{ id: string }>('SELECT id FROM users WHERE lower(email) = lower($1)', [inv.email], t)
-    if (taken) throw conflict('There is already an account with this e-mail address; sign in with it instead', 'email_taken')
-    const [u] = await select<User>(
-      `INSERT INTO users (email, name, role, password_hash) VALUES ($1, $2, $3, $4) RETURNING id, email, name, role`,
-      [inv.email, input.name ?? inv.name, inv.role, passwordHash], t,
-    )
-    await db().query('UPDATE team_invitations SET accepted_at = now(), accepted_user_id = $2 WHERE id = $1', { bind: [inv.id, u.id], transaction: t })
-    await recordAudit({ actorId: u.id, action: 'invitation.accepted', targetUserId: u.id, targetName: u.name, targetEmail: u.email, details: { role: u.role, invitationId: inv.id, invitedBy: inv.invited_by } }, t)
+    const inv = usable(await models().TeamInvitation.findOne({ where: { tokenHash: hashToken(input.token) }, transaction: t, lock: t.LOCK.UPDATE }))
+    if (await emailTaken(inv.email, t)) throw conflict('There is already an account with this e-mail address; sign in with it instead', 'email_taken')
+    const created = await models().User.create({ email: inv.email, name: input.name ?? inv.name, role: inv.role, passwordHash }, { transaction: t })
+    const u: User = { id: created.id, email: created.email, name: created.name, role: created.role }
+    await inv.update({ acceptedAt: dbNow(), acceptedUserId: u.id }, { transaction: t })
+    await recordAudit({ actorId: u.id, action: 'invitation.accepted', targetUserId: u.id, targetName: u.name, targetEmail: u.email, details: { role: u.role, invitationId: inv.id, invitedBy: inv.invitedBy } }, t)
     return u
   })
 }
@@ -203,12 +200,12 @@ export async function acceptInvitation(input: AcceptInvitationInput): Promise<Us
 export async function deactivate(by: User, id: string): Promise<AccountSummary> {
   if (id === by.id) throw forbidden('You cannot switch off your own account; ask another supervisor')
   await withTransaction(async (t, afterCommit) => {
-    const m = await account(id, 'any', t)
+    const { user: m } = await account(id, 'any', t)
     if (!m.active) throw conflict(`${m.name}'s account is already switched off`, 'already_inactive')
-    await db().query('UPDATE users SET active = false, updated_at = now() WHERE id = $1', { bind: [id], transaction: t })
-    const cases = m.role === 'listener' ? [] : await select<{ id: string }>(
-      `UPDATE cases SET assignee_id = NULL, updated_at = now() WHERE assignee_id = $1 AND status NOT IN ('draft', 'closed') RETURNING id`, [id], t,
-    )
+    await m.update({ active: false }, { transaction: t })
+    const cases = m.role === 'listener' ? [] : (await models().Case.update(
+      { assigneeId: null, updatedAt: dbNow() }, { where: { assigneeId: id, status: OPEN }, returning: ['id'], transaction: t },
+    ))[1]
     for (const c of cases) {
       await insertEvent({ caseId: c.id, actorId: by.id, kind: 'unassigned', data: { fromAssigneeId: id, fromAssigneeName: m.name, reason: 'account switched off', internal: true } }, t)
     }
@@ -229,9 +226,9 @@ export async function deactivate(by: User, id: string): Promise<AccountSummary> 
 
 export async function reactivate(by: User, id: string): Promise<AccountSummary> {
   await withTransaction(async (t) => {
-    const m = await account(id, 'any', t)
+    const { user: m } = await account(id, 'any', t)
     if (m.active) throw conflict(`${m.name}'s account is already on`, 'already_active')
-    await db().query('UPDATE users SET active = true, updated_at = now() WHERE id = $1', { bind: [id], transaction: t })
+    await m.update({ active: true }, { transaction: t })
     await recordAudit({ actorId: by.id, action: 'member.reactivated', targetUserId: id, targetName: m.name, targetEmail: m.email }, t)
   })
   return toAccount(await account(id, 'any'))
@@ -241,39 +238,46 @@ export async function reactivate(by: User, id: string): Promise<AccountSummary> 
 export async function changeRole(by: User, id: string, role: StaffRole): Promise<TeamMember> {
   if (id === by.id) throw forbidden('You cannot change your own role; ask another supervisor')
   await withTransaction(async (t) => {
-    const m = await member(id, t)
+    const { user: m } = await member(id, t)
     if (m.role === role) throw conflict(`${m.name} is already a ${role}`, 'same_role')
-    await db().query('UPDATE users SET role = $2, updated_at = now() WHERE id = $1', { bind: [id, role], transaction: t })
-    await recordAudit({ actorId: by.id, action: 'member.role_changed', targetUserId: id, targetName: m.name, targetEmail: m.email, details: { from: m.role, to: role } }, t)
+    const from = m.role
+    await m.update({ role }, { transaction: t })
+    await recordAudit({ actorId: by.id, action: 'member.role_changed', targetUserId: id, targetName: m.name, targetEmail: m.email, details: { from, to: role } }, t)
   })
   return toMember(await member(id))
 }
 
 // ----------------------------------------------------------------- audit log
 
-interface AuditRow {
-  id: string; action: AuditAction; actor_id: string | null; actor_name: string | null; target_user_id: string | null
-  target_name: string | null; target_email: string | null; details: Record<string, unknown>; created_at: Date; total: number
-}
-
 export async function listAudit(q: AuditQuery): Promise<{ entries: AuditEntry[]; total: number }> {
-  const rows = await select<AuditRow>(
-    `SELECT a.id, a.action, a.actor_id, u.name AS actor_name, a.target_user_id, coalesce(tu.name, a.target_name) AS target_name,
-            coalesce(tu.email, a.target_email) AS target_email, a.details, a.created_at, count(*) OVER ()::int AS total
-       FROM audit_log a LEFT JOIN users u ON u.id = a.actor_id LEFT JOIN users tu ON tu.id = a.target_user_id
-      WHERE ($1::uuid IS NULL OR a.actor_id = $1) AND ($2::text IS NULL OR a.action = $2)
-        AND ($3::timestamptz IS NULL OR a.created_at >= $3) AND ($4::timestamptz IS NULL OR a.created_at < $4)
-        AND ($5::uuid IS NULL OR a.target_user_id = $5)
-      ORDER BY a.created_at DESC, a.id DESC LIMIT $6 OFFSET $7`,
-    [q.actorId ?? null, q.action ?? null, q.from ?? null, q.to ?? null, q.targetUserId ?? null, q.pageSize, (q.page - 1) * q.pageSize],
-  )
+  const createdAt = { ...(q.from ? { [Op.gte]: new Date(q.from) } : {}), ...(q.to ? { [Op.lt]: new Date(q.to) } : {}) }
+  const filter: WhereOptions<AuditLogModel> = {
+    ...(q.actorId ? { actorId: q.actorId } : {}),
+    ...(q.action ? { action: q.action } : {}),
+    ...(q.targetUserId ? { targetUserId: q.targetUserId } : {}),
+    ...(q.from || q.to ? { createdAt } : {}),
+  }
+  const { rows, count } = await models().AuditLog.findAndCountAll({
+    where: filter,
+    include: [
+      { association: 'actor', attributes: ['id', 'name'], required: false },
+      { association: 'targetUser', attributes: ['id', 'name', 'email'], required: false },
+    ],
+    order: [['createdAt', 'DESC'], ['id', 'DESC']],
+    limit: q.pageSize, offset: (q.page - 1) * q.pageSize,
+  })
   return {
-    total: rows[0]?.total ?? 0,
-    entries: rows.map((r) => ({
-      id: String(r.id), action: r.action,
-      actor: r.actor_id ? { id: r.actor_id, name: r.actor_name ?? '' } : null,
-      target: r.target_name || r.target_email ? { id: r.target_user_id, name: r.target_name ?? '', email: r.target_email ?? '' } : null,
-      details: r.details, createdAt: iso(r.created_at),
-    })),
+    total: count,
+    entries: rows.map((r) => {
+      // the account's present name and address when it still exists, else those written with the entry
+      const name = r.targetUser?.name ?? r.targetName
+      const email = r.targetUser?.email ?? r.targetEmail
+      return {
+        id: String(r.id), action: r.action as AuditAction,
+        actor: r.actorId ? { id: r.actorId, name: r.actor?.name ?? '' } : null,
+        target: name || email ? { id: r.targetUserId, name: name ?? '', email: email ?? '' } : null,
+        details: r.details, createdAt: iso(r.createdAt),
+      }
+    }),
   }
 }

@@ -174,7 +174,7 @@ export async function latestTriage(caseId: string): Promise<TriageSnapshot | nul
 
 /** Every triage of a case, oldest first, reduced to the figures compared between room revisions (computed in SQL). */
 export async function triageHistory(caseId: string): Promise<TriageHistoryEntry[]> {
-  // Hand-written: the figures are picked out of each snapshot's JSON body in the database (jsonb_array_elements), not shipped whole.
+  // raw SQL: the figures are picked out of each snapshot's JSON body in the database (jsonb_array_elements), not shipped whole
   const rows = await models().TriageSnapshot.sequelize!.query<{ room_revision: number; computed_at: Date; engine_version: string; score: number; flags: { id: string; severity: string }[] | null; rt500: number | null; spread: number | null; in_window: number }>(
     `SELECT ts.room_revision, ts.computed_at, ts.engine_version, ts.score,
             (SELECT jsonb_agg(jsonb_build_object('id', f->>'id', 'severity', f->>'severity')) FROM jsonb_array_elements(ts.body->'flags') f) AS flags,

@@ -7,8 +7,8 @@
  */
 import { readdir, rm, stat } from 'node:fs/promises'
 import path from 'node:path'
-import { QueryTypes } from 'sequelize'
-import { db } from '../db/sequelize'
+import { Op } from 'sequelize'
+import { models } from '../db/models'
 import { log } from '../lib/log'
 import { storage } from './index'
 import { LocalStorage } from './local'
@@ -48,10 +48,9 @@ export async function sweepStorage(opts: { graceMs?: number; store?: LocalStorag
   }
   for (let i = 0; i < candidates.length; i += 500) {
     const batch = candidates.slice(i, i + 500)
-    const known = new Set((await db().query<{ key: string }>(
-      `SELECT k AS key FROM unnest($1::text[]) k WHERE EXISTS (SELECT 1 FROM files f WHERE f.storage_key = k OR f.thumb_key = k)`,
-      { bind: [batch.map((c) => c.key)], type: QueryTypes.SELECT },
-    )).map((r) => r.key))
+    const keys = batch.map((c) => c.key)
+    const rows = await models().File.findAll({ attributes: ['storageKey', 'thumbKey'], where: { [Op.or]: [{ storageKey: keys }, { thumbKey: keys }] } })
+    const known = new Set(rows.flatMap((r) => [r.storageKey, r.thumbKey]))
     for (const c of batch) if (!known.has(c.key)) { await rm(c.file, { force: true }); result.orphans++ }
   }
   if (result.temp || result.incoming || result.orphans) log.info('storage sweep removed leftovers', { ...result })

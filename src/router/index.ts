@@ -1,4 +1,4 @@
-import { createRouter, createWebHistory } from 'vue-router'
+import { createRouter, createWebHistory, type RouteLocationNormalized } from 'vue-router'
 import { useAuthStore } from '../stores/auth'
 import { buildRoutes, homeRouteFor, named, navigationFor } from './routes'
 import type { Role } from '../../shared/schemas/auth'
@@ -13,8 +13,21 @@ export const router = createRouter({
   scrollBehavior: (_to, _from, saved) => saved ?? { top: 0 },
 })
 
+/**
+ * Starts fetching the page's own code (a lazy route) while the session is asked for, instead of after
+ * it: the two round trips of a first load then overlap. The router imports the same module again
+ * once the guard has answered and gets it from the module cache.
+ */
+function prefetchComponents(to: RouteLocationNormalized): void {
+  for (const record of to.matched) {
+    const c = record.components?.default
+    if (typeof c === 'function') void Promise.resolve((c as () => unknown)()).catch(() => {})
+  }
+}
+
 router.beforeEach(async (to) => {
   const auth = useAuthStore()
+  if (!auth.loaded) prefetchComponents(to)
   await auth.ensureLoaded()
   if (to.name === 'home') return named(auth.homeRoute)
   if (to.meta.guestOnly && auth.user) return named(auth.homeRoute)

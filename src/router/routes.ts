@@ -114,6 +114,12 @@ const PUBLIC = { public: true } as const
 const page = (path: string, name: RouteName, component: Page, meta: RouteRecordRaw['meta']): NamedRoute =>
   ({ path, name, component, meta }) as NamedRoute
 
+/** A page whose first screen draws a chart: the charts' chunk is fetched beside the page's, not after it mounts. */
+const withCharts = (load: Page): Page => () => {
+  void import('../plugins/chart').then((c) => c.loadCharts()).catch(() => {})
+  return load()
+}
+
 /** '/' renders nothing: the guard in ./index.ts sends each visitor on to their role's home. */
 export function buildRoutes(): NamedRoute[] {
   return [
@@ -122,13 +128,13 @@ export function buildRoutes(): NamedRoute[] {
     page('/sign-up', 'sign-up', () => import('../pages/SignUpPage.vue'), { title: 'Create an account', ...GUEST }),
     page('/cases', 'my-cases', () => import('../pages/ListenerHomePage.vue'), { title: 'My cases', roles: LISTENER, nav: { label: 'My cases', icon: mdiFolderOutline } }),
     page('/cases/new', 'case-new', () => import('../pages/CaseNewPage.vue'), { title: 'Open a case', roles: LISTENER }),
-    page('/cases/:id', 'case', () => import('../pages/CasePage.vue'), { title: 'Case', roles: LISTENER }),
+    page('/cases/:id', 'case', withCharts(() => import('../pages/CasePage.vue')), { title: 'Case', roles: LISTENER }),
     page('/rooms', 'rooms', () => import('../pages/RoomsPage.vue'), { title: 'My rooms', roles: LISTENER, nav: { label: 'My rooms', icon: mdiFloorPlan } }),
     page('/rooms/new', 'room-new', () => import('../pages/RoomEditorPage.vue'), { title: 'Describe a room', roles: LISTENER }),
     page('/rooms/:id', 'room-edit', () => import('../pages/RoomEditorPage.vue'), { title: 'Room', roles: LISTENER }),
-    page('/dashboard', 'dashboard', () => import('../pages/DashboardPage.vue'), { title: 'Dashboard', roles: SUPERVISOR, nav: { label: 'Dashboard', icon: mdiChartBoxOutline } }),
+    page('/dashboard', 'dashboard', withCharts(() => import('../pages/DashboardPage.vue')), { title: 'Dashboard', roles: SUPERVISOR, nav: { label: 'Dashboard', icon: mdiChartBoxOutline } }),
     page('/queue', 'queue', () => import('../pages/QueuePage.vue'), { title: 'Case queue', roles: STAFF, nav: { label: 'Case queue', icon: mdiTrayFull } }),
-    page('/desk/cases/:id', 'case-workspace', () => import('../pages/CaseWorkspacePage.vue'), { title: 'Case', roles: STAFF }),
+    page('/desk/cases/:id', 'case-workspace', withCharts(() => import('../pages/CaseWorkspacePage.vue')), { title: 'Case', roles: STAFF }),
     page('/desk/cases/:id/plan', 'plan-editor', () => import('../pages/PlanEditorPage.vue'), { title: 'Treatment plan', roles: STAFF }),
     page('/cases/:id/plans/:version/report', 'plan-report', () => import('../pages/PlanReportPage.vue'), { title: 'Treatment plan', roles: EVERYONE }),
     page('/team', 'team', () => import('../pages/TeamPage.vue'), { title: 'Team', roles: SUPERVISOR, nav: { label: 'Team', icon: mdiAccountGroupOutline } }),
@@ -156,6 +162,16 @@ export function navigationFor(routes: readonly NamedRoute[], role: Role): { name
 
 /** A `redirect` query value that is safe to follow: a path on this site, never another origin. */
 export function safeRedirect(value: unknown): string | null {
-  if (typeof value !== 'string' || !value.startsWith('/') || value.startsWith('//') || value.startsWith('/\\')) return null
+  // The URL parser drops tabs and line breaks and reads `\` as `/`, so `/\t/evil.example` is `//evil.example`:
+  // any control character or backslash is refused, and what is left must resolve to this origin.
+  if (typeof value !== 'string' || !value.startsWith('/') || /[\u0000-\u001f\u007f\\]/.test(value)) return null
+  const base = 'https://same-origin.invalid'
+  let url: URL
+  try {
+    url = new URL(value, base)
+  } catch {
+    return null
+  }
+  if (url.origin !== base || value.startsWith('//')) return null
   return value
 }

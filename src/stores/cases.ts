@@ -143,8 +143,12 @@ export const useCasesStore = defineStore('cases', () => {
     return id ? events.load(() => casesApi.listEvents(id)) : Promise.resolve()
   }
 
-  /** Opens a case: every part in parallel, each with its own loading and error state. */
-  async function open(id: string): Promise<void> {
+  /**
+   * Opens a case: every part in parallel, each with its own loading and error state. `sent: true` says the
+   * case is known to be past draft (the team never sees a draft), so its triage is asked for at once
+   * rather than after the case itself has answered.
+   */
+  async function open(id: string, opts: { sent?: boolean } = {}): Promise<void> {
     if (currentId.value !== id) {
       for (const part of [detail, triage, triageHistory, room, messages, files, events]) part.reset()
       currentId.value = id
@@ -154,7 +158,7 @@ export const useCasesStore = defineStore('cases', () => {
       await refreshDetail()
       if (isCurrent(id) && detail.data.value && detail.data.value.status !== 'draft') await refreshTriage()
     }
-    await Promise.all([triageOnceSent(), refreshMessages(), refreshFiles(), refreshEvents()])
+    await Promise.all([opts.sent ? Promise.all([refreshDetail(), refreshTriage()]) : triageOnceSent(), refreshMessages(), refreshFiles(), refreshEvents()])
   }
 
   function close(id: string): void {

@@ -188,6 +188,37 @@ describe('HTTP routes × callers', () => {
   })
 })
 
+describe('a switched-off account: every route answers as to a signed-out caller', () => {
+  // Sessions made before a supervisor switched the account off (POST /api/team/members/:id/deactivate).
+  // The session ends with the switch-off, so a state-changing call may also fail on its CSRF token (403 csrf);
+  // never anything a signed-out caller would not get.
+  const offCallers: Caller[] = []
+  beforeAll(async () => {
+    for (const role of ['listener', 'advisor'] as const) {
+      const u = await makeUser(role, `Matrix switched-off ${role}`)
+      const agent = request.agent(server.url)
+      const { body } = await agent.get('/api/auth/csrf').expect(200)
+      const res = await agent.post('/api/auth/login').set('X-CSRF-Token', body.token).send({ email: u.email, password: u.password }).expect(200)
+      await callers.supervisor.agent.post(`/api/team/members/${u.id}/deactivate`).set('X-CSRF-Token', callers.supervisor.csrf).expect(200)
+      offCallers.push({ who: 'out', user: null, agent, csrf: body.token, cookie: String(res.headers['set-cookie']).split(';')[0] })
+    }
+  }, 60_000)
+  it('every route × a switched-off listener and advisor (first scenario of each route, sessions kept)', async () => {
+    const wrong: string[] = []
+    for (const [key, scenarios] of Object.entries(routeEntries)) {
+      const method = key.split(' ')[0]
+      const s = scenarios[0]
+      if (s.fresh) continue
+      for (const c of offCallers) {
+        const res = await call(c, s, shared, method)
+        const asOut = res.status === s.expect.out || (method !== 'GET' && res.status === 403 && res.body?.error?.code === 'csrf')
+        if (!asOut) wrong.push(`${key}: ${res.status} (signed out: ${s.expect.out})`)
+      }
+    }
+    expect(wrong).toEqual([])
+  }, 120_000)
+})
+
 describe('socket events × callers', () => {
   const connect = async (who: Who): Promise<Socket | 'signed_out'> => {
     if (who === 'out') {

@@ -1,8 +1,7 @@
 import { afterAll, beforeAll, describe, expect, it } from 'vitest'
 import { QueryTypes } from 'sequelize'
-import { readdirSync, existsSync } from 'node:fs'
-import { join } from 'node:path'
 import { closeTestApp, signedIn } from '../helpers/api'
+import { filesUnder } from '../helpers/files'
 import { openCase } from '../helpers/cases'
 import { jpeg, png } from '../unit/uploads/make-files'
 import { addPulse, exponentialDecay, writeWav } from '../unit/signal/synthetic'
@@ -22,16 +21,7 @@ afterAll(async () => {
 const countFiles = async (caseId: string) =>
   (await db().query<{ n: number }>('SELECT count(*)::int AS n FROM files WHERE case_id = $1', { bind: [caseId], type: QueryTypes.SELECT }))[0].n
 
-function storedObjects(): string[] {
-  const root = process.env.STORAGE_DIR!
-  const out: string[] = []
-  const walk = (d: string) => {
-    if (!existsSync(d)) return
-    for (const e of readdirSync(d, { withFileTypes: true })) e.isDirectory() ? walk(join(d, e.name)) : out.push(join(d, e.name))
-  }
-  walk(root)
-  return out
-}
+const storedObjects = () => filesUnder(process.env.STORAGE_DIR!)
 
 /** A synthetic impulse response: an exponential decay of T = 0.45 s with a reflection 4 ms after the direct sound. */
 function impulseResponseWav(): Buffer {

@@ -1,7 +1,7 @@
 import { afterAll, beforeAll, describe, expect, it } from 'vitest'
 import fc from 'fast-check'
 import { deflateRawSync } from 'node:zlib'
-import { mkdtempSync, readdirSync, existsSync, rmSync, statSync } from 'node:fs'
+import { mkdtempSync, rmSync, statSync } from 'node:fs'
 import { join } from 'node:path'
 import { tmpdir } from 'node:os'
 import { QueryTypes } from 'sequelize'
@@ -11,6 +11,7 @@ import { LocalStorage } from '../../server/storage'
 import { setStorageForTests } from '../../server/storage/index'
 import { closeTestApp, signedIn, type Client } from '../helpers/api'
 import { openCase } from '../helpers/cases'
+import { filesUnder } from '../helpers/files'
 import { gif, jpeg, multipart, noise, png, pngBomb, responseText, wav } from '../unit/uploads/make-files'
 import { fcParams, fuzzTimeout, unsafeHtml, xssCorpus } from '../unit/fuzz/helpers'
 
@@ -25,15 +26,7 @@ let listener: { c: Client; user: { id: string } }
 let advisor: { c: Client }
 let caseId: string
 
-function objects(): string[] {
-  const out: string[] = []
-  const walk = (d: string) => {
-    if (!existsSync(d)) return
-    for (const e of readdirSync(d, { withFileTypes: true })) e.isDirectory() ? walk(join(d, e.name)) : out.push(join(d, e.name))
-  }
-  walk(root)
-  return out
-}
+const objects = () => filesUnder(root)
 const fileRows = async () => (await q<{ n: number }>('SELECT count(*)::int AS n FROM files WHERE case_id = $1', [caseId]))[0].n
 
 beforeAll(async () => {

@@ -1,11 +1,10 @@
-import { afterAll, beforeAll, describe, expect, it } from 'vitest'
+import { beforeAll, describe, expect, it } from 'vitest'
 import { randomUUID } from 'node:crypto'
 import type { Socket } from 'socket.io-client'
-import { startServer, type RunningServer } from '../../server/server'
 import { insertEvent } from '../../server/data/events'
 import { makeUser, type Client } from '../helpers/api'
 import { openCase } from '../helpers/cases'
-import { connectSocket, emitAck, nextEvent, sessionFor } from '../helpers/sockets'
+import { connectSocket, emitAck, httpClient, joinedSockets, nextEvent, useServer } from '../helpers/sockets'
 import { png, responseText } from '../unit/uploads/make-files'
 
 /**
@@ -13,27 +12,13 @@ import { png, responseText } from '../unit/uploads/make-files'
  * entries, live payloads, downloads — stays with the team. One rule decides it (server/data/visibility.ts);
  * these tests walk every read path the listener has.
  */
-let server: RunningServer
+const running = useServer()
 let PHOTO: Buffer
 beforeAll(async () => {
-  server = await startServer({ port: 0, clientDir: false, background: false })
   PHOTO = await png(40, 30)
 })
-afterAll(async () => {
-  await server?.close()
-})
 
-async function httpClient(email: string, password: string): Promise<Client & { cookie: string }> {
-  const { agent, csrf, cookie } = await sessionFor(server.url, email, password)
-  return {
-    agent, csrf, cookie,
-    get: (u) => agent.get(u),
-    post: (u, b) => agent.post(u).set('X-CSRF-Token', csrf).send(b as object),
-    put: (u, b) => agent.put(u).set('X-CSRF-Token', csrf).send(b as object),
-    patch: (u, b) => agent.patch(u).set('X-CSRF-Token', csrf).send(b as object),
-    delete: (u) => agent.delete(u).set('X-CSRF-Token', csrf),
-  }
-}
+const signIn = (email: string, password: string) => httpClient(running.server.url, email, password)
 const uploadAs = (c: Client, caseId: string, bytes: Buffer | string, name: string) =>
   c.agent.post(`/api/cases/${caseId}/files`).set('X-CSRF-Token', c.csrf).attach('file', Buffer.from(bytes), name).expect(201).then((r) => r.body as { id: string; name: string })
 
@@ -48,8 +33,8 @@ async function scene() {
   const tag = randomUUID().slice(0, 8)
   const l = await makeUser('listener', 'Attachment Listener')
   const a = await makeUser('advisor', 'Attachment Advisor')
-  const listener = await httpClient(l.email, l.password)
-  const advisor = await httpClient(a.email, a.password)
+  const listener = await signIn(l.email, l.password)
+  const advisor = await signIn(a.email, a.password)
   const { case: c } = await openCase(listener)
   return { tag, listener, advisor, caseId: c.id }
 }
@@ -57,10 +42,7 @@ async function scene() {
 describe("an internal note's attachments stay with the team", () => {
   it('the listener never sees the file: not in the file list, the thread, the history, the socket or a download; the team sees all of it', async () => {
     const { tag, listener, advisor, caseId } = await scene()
-    const ls = await connectSocket(server.url, listener.cookie)
-    const as = await connectSocket(server.url, advisor.cookie)
-    await emitAck(ls, 'case.join', { caseId })
-    await emitAck(as, 'case.join', { caseId })
+    const [ls, as] = await joinedSockets(running.server.url, caseId, listener.cookie, advisor.cookie)
     const heard = recorder(ls)
     try {
       const noteName = `note-only-${tag}.png`
@@ -114,10 +96,7 @@ describe("an internal note's attachments stay with the team", () => {
 
   it("the team's upload goes to the team's socket room only; the listener's own upload to both", async () => {
     const { listener, advisor, caseId } = await scene()
-    const ls = await connectSocket(server.url, listener.cookie)
-    const as = await connectSocket(server.url, advisor.cookie)
-    await emitAck(ls, 'case.join', { caseId })
-    await emitAck(as, 'case.join', { caseId })
+    const [ls, as] = await joinedSockets(running.server.url, caseId, listener.cookie, advisor.cookie)
     const heard = recorder(ls)
     try {
       const teamGot = nextEvent<{ kind: string; internal?: boolean }>(as, 'case.event', (e) => e.kind === 'file')

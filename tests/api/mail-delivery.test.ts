@@ -12,6 +12,8 @@ import { DELIVER_QUEUE } from '../../server/mail/queues'
 import { updateUser } from '../../server/data/users'
 import { closeTestApp, signedIn } from '../helpers/api'
 import { openCase } from '../helpers/cases'
+import { models, minutesAgo } from '../helpers/rows'
+import { waitFor as poll } from '../helpers/wait'
 
 const REPLY_DOMAIN = 'reply.delivery.roomwright.test'
 let fake: FakeSmtp | undefined
@@ -198,15 +200,7 @@ describe('with pg-boss workers running', () => {
    */
   const first = (jobId: string | null) => db().query('UPDATE pgboss.job SET priority = 100 WHERE id = $1', { bind: [jobId] })
 
-  const waitFor = async <T>(what: string, fn: () => Promise<T | undefined | false>, ms = 20_000): Promise<T> => {
-    const until = Date.now() + ms
-    for (;;) {
-      const v = await fn()
-      if (v) return v
-      if (Date.now() > until) throw new Error(`timed out waiting for ${what}`)
-      await new Promise((r) => setTimeout(r, 200))
-    }
-  }
+  const waitFor = <T>(what: string, fn: () => Promise<T | undefined | false>, ms = 20_000) => poll(what, fn, ms, 200)
 
   it('a committed e-mail is delivered by the job, once', async () => {
     const f = await caseFixture()
@@ -220,7 +214,7 @@ describe('with pg-boss workers running', () => {
   it('the sweep re-queues a queued row whose job was lost, and the worker then delivers it', async () => {
     const f = await caseFixture()
     const r = await queueForTest(replyInput(f, 'My job was lost.'))
-    await db().query("UPDATE email_outbox SET updated_at = now() - interval '10 minutes' WHERE id = $1", { bind: [r.id] })
+    await models().EmailOutbox.update({ updatedAt: minutesAgo(10) }, { where: { id: r.id } })
     const swept = await sweepOutbox({ quietSeconds: 300 })
     expect(swept.requeued).toBeGreaterThanOrEqual(1)
     const row = await outbox(r.id)
@@ -229,7 +223,7 @@ describe('with pg-boss workers running', () => {
     await waitFor('the swept e-mail to be sent', async () => (await outbox(r.id)).status === 'sent')
     expect(await received(r.messageId)).toHaveLength(1)
     // A second sweep finds nothing more to do for it.
-    await db().query("UPDATE email_outbox SET updated_at = now() - interval '10 minutes' WHERE id = $1", { bind: [r.id] })
+    await models().EmailOutbox.update({ updatedAt: minutesAgo(10) }, { where: { id: r.id } })
     await sweepOutbox({ quietSeconds: 300 })
     expect((await outbox(r.id)).status).toBe('sent')
     expect(await received(r.messageId)).toHaveLength(1)

@@ -15,7 +15,7 @@ import { mailRouter, INBOUND_SECRET_HEADER } from '../../server/routes/mail'
 import { startFakeSmtp, type FakeSmtp } from '../../server/mail/fake-smtp'
 import { deliverOutboxEmail } from '../../server/mail/deliver'
 import { stopJobs } from '../../server/jobs/queue'
-import { closeTestApp, makeUser, signedIn, type Client } from '../helpers/api'
+import { clientOf, closeTestApp, makeUser, signedIn, type Client } from '../helpers/api'
 import { openCase } from '../helpers/cases'
 
 /**
@@ -29,21 +29,7 @@ app.use('/api', express.json({ limit: '1mb' }), built.sessionMiddleware, passpor
 app.use(built.app)
 app.use(errorHandler)
 
-async function mailClient(user?: { email: string; password: string }): Promise<Client> {
-  const agent = request.agent(app)
-  const { body } = await agent.get('/api/auth/csrf').expect(200)
-  const c: Client = {
-    agent,
-    csrf: body.token,
-    get: (url) => agent.get(url),
-    post: (url, b) => agent.post(url).set('X-CSRF-Token', c.csrf).send(b as object),
-    put: (url, b) => agent.put(url).set('X-CSRF-Token', c.csrf).send(b as object),
-    patch: (url, b) => agent.patch(url).set('X-CSRF-Token', c.csrf).send(b as object),
-    delete: (url) => agent.delete(url).set('X-CSRF-Token', c.csrf),
-  }
-  if (user) await c.post('/api/auth/login', { email: user.email, password: user.password }).expect(200)
-  return c
-}
+const mailClient = (user?: { email: string; password: string }): Promise<Client> => clientOf(app, user)
 const mailAs = async (role: 'listener' | 'advisor' | 'supervisor') => {
   const user = await makeUser(role)
   return { user, c: await mailClient(user) }

@@ -6,45 +6,42 @@ import { testRoom } from '../helpers/rooms'
 import { db } from '../../server/db/sequelize'
 import { workingMs } from '../../server/services/business-hours'
 import type { BusinessHours } from '../../shared/schemas/metrics'
+import type { CaseStatus } from '../../shared/schemas/case'
+import { hoursAgo, models } from '../helpers/rows'
 
 afterAll(closeTestApp)
 
 /**
- * A small fixed history, inserted with SQL under fresh users so figures can be filtered to it
+ * A small fixed history, inserted through the models under fresh users so figures can be filtered to it
  * (other test files write to the same database at the same time). Every expected value below is
  * worked out by hand from these timestamps; percentiles are linear interpolation between closest
  * ranks, PostgreSQL's percentile_cont (PostgreSQL manual, "Aggregate Functions", table 9.62).
  */
-type Ev = { at: string; kind: string; by: 'L' | 'A1' | 'A2'; from?: string; to?: string; internal?: boolean }
+type Ev = { at: Date; kind: string; by: 'L' | 'A1' | 'A2'; from?: string; to?: string; internal?: boolean }
 interface Fixture { listenerId: string; a1: string; a2: string; ids: Record<string, string> }
 
-async function insertCase(f: Omit<Fixture, 'ids'>, roomId: string, c: { title: string; status: string; assignee: 'A1' | 'A2'; flags: string[]; waitingSince?: string; events: Ev[]; rating?: { score: number; at: string; comment: string } }) {
-  const sql = db()
+async function insertCase(f: Omit<Fixture, 'ids'>, roomId: string, c: { title: string; status: string; assignee: 'A1' | 'A2'; flags: string[]; waitingSince?: Date; events: Ev[]; rating?: { score: number; at: Date; comment: string } }) {
+  const { Case, CaseEvent, CaseRating } = models()
   const who = { L: f.listenerId, A1: f.a1, A2: f.a2 }
   const sub = c.events.find((e) => e.to === 'submitted')!.at
-  const [row] = await sql.query<{ id: string }>(
-    `INSERT INTO cases (listener_id, room_id, room_revision, title, status, assignee_id, flag_ids, reply_token, submitted_at, waiting_since, created_at)
-     VALUES ($1, $2, 1, $3, $4, $5, $6, $7, ${sub}, ${c.waitingSince ?? 'NULL'}, ${sub}) RETURNING id`,
-    { bind: [f.listenerId, roomId, c.title, c.status, who[c.assignee], c.flags, randomBytes(24).toString('hex')], type: QueryTypes.SELECT },
-  )
+  const row = await Case.create({
+    listenerId: f.listenerId, roomId, roomRevision: 1, title: c.title, status: c.status as CaseStatus, assigneeId: who[c.assignee], flagIds: c.flags,
+    replyToken: randomBytes(24).toString('hex'), submittedAt: sub, waitingSince: c.waitingSince ?? null, createdAt: sub,
+  })
   for (const e of c.events) {
-    await sql.query(
-      `INSERT INTO case_events (case_id, actor_id, kind, from_status, to_status, data, created_at) VALUES ($1, $2, $3, $4, $5, $6, ${e.at})`,
-      { bind: [row.id, who[e.by], e.kind, e.from ?? null, e.to ?? null, JSON.stringify(e.internal ? { internal: true } : {})] },
-    )
-  }
-  if (c.rating) {
-    await sql.query(`INSERT INTO case_ratings (case_id, listener_id, score, comment, created_at) VALUES ($1, $2, $3, $4, ${c.rating.at})`, {
-      bind: [row.id, f.listenerId, c.rating.score, c.rating.comment],
+    await CaseEvent.create({
+      caseId: row.id, actorId: who[e.by], kind: e.kind, fromStatus: (e.from ?? null) as CaseStatus | null, toStatus: (e.to ?? null) as CaseStatus | null,
+      data: e.internal ? { internal: true } : {}, createdAt: e.at,
     })
   }
+  if (c.rating) await CaseRating.create({ caseId: row.id, listenerId: f.listenerId, score: c.rating.score, comment: c.rating.comment, createdAt: c.rating.at })
   return row.id
 }
 
-const t = (iso: string) => `'${iso}'::timestamptz`
-const ago = (hours: number) => `now() - interval '${hours} hours'`
-const submit = (at: string): Ev => ({ at, kind: 'status', by: 'L', from: 'draft', to: 'submitted' })
-const close = (at: string, by: Ev['by']): Ev => ({ at, kind: 'status', by, from: 'in_review', to: 'closed' })
+const t = (iso: string) => new Date(iso)
+const ago = hoursAgo
+const submit = (at: Date): Ev => ({ at, kind: 'status', by: 'L', from: 'draft', to: 'submitted' })
+const close = (at: Date, by: Ev['by']): Ev => ({ at, kind: 'status', by, from: 'in_review', to: 'closed' })
 
 let fx: Fixture
 let sup: Client

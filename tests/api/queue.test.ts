@@ -3,6 +3,8 @@ import { QueryTypes } from 'sequelize'
 import { closeTestApp, signedIn } from '../helpers/api'
 import { openCase } from '../helpers/cases'
 import { db } from '../../server/db/sequelize'
+import { hoursAgo, models } from '../helpers/rows'
+import type { CaseStatus } from '../../shared/schemas/case'
 
 afterAll(closeTestApp)
 
@@ -11,9 +13,9 @@ const ids = (rows: { id: string }[]) => rows.map((r) => r.id)
 
 /** Sets a case's status, score and the start of its wait directly (the queue reads only these columns). */
 async function setCase(id: string, status: string, score: number, waitingHours: number | null) {
-  await db().query(
-    `UPDATE cases SET status = $2::case_status, score = $3, waiting_since = CASE WHEN $4::float IS NULL THEN NULL ELSE now() - make_interval(secs => $4::float * 3600) END WHERE id = $1`,
-    { bind: [id, status, score, waitingHours] },
+  await models().Case.update(
+    { status: status as CaseStatus, score, waitingSince: waitingHours === null ? null : hoursAgo(waitingHours) },
+    { where: { id } },
   )
 }
 

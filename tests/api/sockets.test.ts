@@ -1,55 +1,36 @@
-import { afterAll, beforeAll, describe, expect, it } from 'vitest'
+import { afterAll, describe, expect, it } from 'vitest'
 import { spawn, type ChildProcess } from 'node:child_process'
-import { startServer, type RunningServer } from '../../server/server'
 import { makeUser } from '../helpers/api'
 import { openCase } from '../helpers/cases'
-import { connectSocket, emitAck, nextEvent, sessionFor } from '../helpers/sockets'
+import { connectSocket, emitAck, httpClient, joinedSockets, nextEvent, sessionFor, useServer } from '../helpers/sockets'
 import { freePort } from '../../server/dev/cluster'
-import type { Client } from '../helpers/api'
 
-let server: RunningServer
-beforeAll(async () => {
-  server = await startServer({ port: 0, clientDir: false, background: false })
-})
-afterAll(async () => {
-  await server?.close()
-})
+const running = useServer()
 
-/** A supertest-backed Client against the running server (same shape as tests/helpers/api). */
-async function httpClient(email: string, password: string): Promise<Client & { cookie: string }> {
-  const { agent, csrf, cookie } = await sessionFor(server.url, email, password)
-  return {
-    agent, csrf, cookie,
-    get: (u) => agent.get(u),
-    post: (u, b) => agent.post(u).set('X-CSRF-Token', csrf).send(b as object),
-    put: (u, b) => agent.put(u).set('X-CSRF-Token', csrf).send(b as object),
-    patch: (u, b) => agent.patch(u).set('X-CSRF-Token', csrf).send(b as object),
-    delete: (u) => agent.delete(u).set('X-CSRF-Token', csrf),
-  }
-}
+const signIn = (email: string, password: string) => httpClient(running.server.url, email, password)
 
 async function people() {
   const l = await makeUser('listener', 'Socket Listener')
   const a = await makeUser('advisor', 'Socket Advisor')
-  const listener = await httpClient(l.email, l.password)
-  const advisor = await httpClient(a.email, a.password)
+  const listener = await signIn(l.email, l.password)
+  const advisor = await signIn(a.email, a.password)
   const { case: c } = await openCase(listener)
   return { listener, advisor, caseId: c.id, l, a }
 }
 
 describe('socket sign-in and joining case rooms', () => {
   it('a socket without a session is refused', async () => {
-    await expect(connectSocket(server.url)).rejects.toThrow(/signed_out/)
+    await expect(connectSocket(running.server.url)).rejects.toThrow(/signed_out/)
   })
   it('a stranger cannot join a case room (checked on the server), the listener and an advisor can', async () => {
     const { listener, advisor, caseId } = await people()
     const s = await makeUser('listener', 'Socket Stranger')
-    const stranger = await httpClient(s.email, s.password)
-    const ss = await connectSocket(server.url, stranger.cookie)
+    const stranger = await signIn(s.email, s.password)
+    const ss = await connectSocket(running.server.url, stranger.cookie)
     expect(await emitAck(ss, 'case.join', { caseId })).toMatchObject({ ok: false, error: { code: 'not_found' } })
-    const ls = await connectSocket(server.url, listener.cookie)
+    const ls = await connectSocket(running.server.url, listener.cookie)
     expect(await emitAck(ls, 'case.join', { caseId })).toMatchObject({ ok: true })
-    const as = await connectSocket(server.url, advisor.cookie)
+    const as = await connectSocket(running.server.url, advisor.cookie)
     expect(await emitAck(as, 'case.join', { caseId })).toMatchObject({ ok: true })
     for (const x of [ss, ls, as]) x.disconnect()
   })
@@ -58,10 +39,7 @@ describe('socket sign-in and joining case rooms', () => {
 describe('live events', () => {
   it("an advisor's reply reaches the listener's socket; an internal note reaches only the team", async () => {
     const { listener, advisor, caseId } = await people()
-    const ls = await connectSocket(server.url, listener.cookie)
-    const as = await connectSocket(server.url, advisor.cookie)
-    await emitAck(ls, 'case.join', { caseId })
-    await emitAck(as, 'case.join', { caseId })
+    const [ls, as] = await joinedSockets(running.server.url, caseId, listener.cookie, advisor.cookie)
     const listenerSawInternal: unknown[] = []
     ls.on('case.message', (m: { internal: boolean }) => { if (m.internal) listenerSawInternal.push(m) })
     const teamNote = nextEvent<{ internal: boolean }>(as, 'case.message', (m) => m.internal)
@@ -76,10 +54,7 @@ describe('live events', () => {
   })
   it('presence: the advisor sees the listener typing', async () => {
     const { listener, advisor, caseId } = await people()
-    const ls = await connectSocket(server.url, listener.cookie)
-    const as = await connectSocket(server.url, advisor.cookie)
-    await emitAck(as, 'case.join', { caseId })
-    await emitAck(ls, 'case.join', { caseId })
+    const [ls, as] = await joinedSockets(running.server.url, caseId, listener.cookie, advisor.cookie)
     const typing = nextEvent<{ state: string; name: string }>(as, 'presence', (p) => p.state === 'typing')
     ls.emit('case.typing', { caseId, typing: true })
     expect(await typing).toMatchObject({ state: 'typing', name: 'Socket Listener' })
@@ -88,8 +63,8 @@ describe('live events', () => {
   })
   it('the queue room hears about changes; a listener socket is not in it', async () => {
     const { listener, advisor, caseId } = await people()
-    const as = await connectSocket(server.url, advisor.cookie)
-    const ls = await connectSocket(server.url, listener.cookie)
+    const as = await connectSocket(running.server.url, advisor.cookie)
+    const ls = await connectSocket(running.server.url, listener.cookie)
     let listenerHeard = 0
     ls.on('queue.changed', () => listenerHeard++)
     const changed = nextEvent<{ caseId: string }>(as, 'queue.changed', (p) => p.caseId === caseId)
@@ -101,13 +76,13 @@ describe('live events', () => {
   })
   it('a reconnecting socket catches up on what it missed, from the database', async () => {
     const { listener, advisor, caseId } = await people()
-    const ls = await connectSocket(server.url, listener.cookie)
+    const ls = await connectSocket(running.server.url, listener.cookie)
     const first = await emitAck(ls, 'case.join', { caseId, afterSeq: 0 })
     const lastSeq = Math.max(...first.missed!.map((e) => e.seq))
     ls.disconnect()
     await advisor.post(`/api/cases/${caseId}/messages`, { body: 'Sent while you were away' }).expect(201)
     await advisor.post(`/api/cases/${caseId}/messages`, { body: 'Internal while away', internal: true }).expect(201)
-    const again = await connectSocket(server.url, listener.cookie)
+    const again = await connectSocket(running.server.url, listener.cookie)
     const caught = await emitAck(again, 'case.join', { caseId, afterSeq: lastSeq })
     expect(caught.ok).toBe(true)
     const kinds = caught.missed!.map((e) => e.kind)

@@ -6,7 +6,7 @@ import { randomUUID } from 'node:crypto'
 import { closeTestApp, signedIn, testApp } from '../helpers/api'
 import { LocalStorage } from '../../server/storage'
 import { sweepStorage } from '../../server/storage/sweep'
-import { db } from '../../server/db/sequelize'
+import { models } from '../helpers/rows'
 
 afterAll(closeTestApp)
 
@@ -56,6 +56,6 @@ async function makeCaseWithFile(userId: string, key: string) {
   const user = { id: u.id, email: u.email, name: u.name, role: u.role }
   const room = await createRoom(user, roomSchema.parse(testRoom()))
   const c = await createCase(user, { roomId: room.id, title: 'Sweep case', description: '', answers: {} } as never)
-  await db().query(`INSERT INTO files (case_id, uploader_id, kind, original_name, mime, size, storage_key) VALUES ($1, $2, 'photo', 'kept.png', 'image/png', 22, $3)`, { bind: [c.id, userId, key] })
+  await models().File.create({ caseId: c.id, uploaderId: userId, kind: 'photo', originalName: 'kept.png', mime: 'image/png', size: 22, storageKey: key, thumbKey: null, analysisStatus: null })
   return c
 }

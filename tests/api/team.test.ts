@@ -3,6 +3,7 @@ import { QueryTypes } from 'sequelize'
 import { client, closeTestApp, signedIn, uniqueEmail, makeUser } from '../helpers/api'
 import { openCase } from '../helpers/cases'
 import { db } from '../../server/db/sequelize'
+import { models, minutesAgo } from '../helpers/rows'
 
 afterAll(closeTestApp)
 
@@ -54,7 +55,7 @@ describe('invitations', () => {
     const email = uniqueEmail('late')
     const inv = (await sup.c.post('/api/team/invitations', { email, name: 'Late Larkspur', role: 'supervisor' }).expect(201)).body
     const token = await invitationLink(email)
-    await db().query(`UPDATE team_invitations SET expires_at = now() - interval '1 minute' WHERE id = $1`, { bind: [inv.id] })
+    await models().TeamInvitation.update({ expiresAt: minutesAgo(1) }, { where: { id: inv.id } })
     const res = await (await client()).post('/api/team/invitations/accept', { token, password: NEW_PASSWORD }).expect(410)
     expect(res.body.error).toMatchObject({ code: 'link_gone', message: expect.stringMatching(/expired/) })
     const users = await db().query('SELECT 1 FROM users WHERE email = $1', { bind: [email], type: QueryTypes.SELECT })

@@ -1,49 +1,20 @@
-import { afterAll, beforeAll, describe, expect, it } from 'vitest'
-import type { Browser } from 'playwright-core'
+import { describe, expect, it } from 'vitest'
 import { join } from 'node:path'
-import { launchBrowser, screenshotDir, signInAs, startProduct } from '../helpers/browser'
+import { screenshotDir, signInAs, useProduct, waitFor } from '../helpers/browser'
 import { makeUser } from '../helpers/api'
 import { sessionFor } from '../helpers/sockets'
-import { freePort } from '../../server/dev/cluster'
-import type { RunningServer } from '../../server/server'
-import type { FakeSmtp } from '../../server/mail/fake-smtp'
 
-let server: RunningServer
-let smtp: FakeSmtp
-let browser: Browser
-beforeAll(async () => {
-  // This file's server sends mail to its own fake SMTP server; the test reads the reset e-mail from its mailbox.
-  process.env.SMTP_PORT = String(await freePort())
-  process.env.FAKE_SMTP = 'on'
-  const { startFakeSmtp } = await import('../../server/mail/fake-smtp')
-  smtp = await startFakeSmtp({ port: Number(process.env.SMTP_PORT) })
-  server = await startProduct()
-  browser = await launchBrowser()
-})
-afterAll(async () => {
-  await browser?.close()
-  await server?.close()
-  await smtp?.stop()
-})
-
-async function waitFor<T>(what: string, fn: () => Promise<T | undefined | null | false>, ms = 60_000): Promise<T> {
-  const until = Date.now() + ms
-  for (;;) {
-    const v = await fn()
-    if (v) return v
-    if (Date.now() > until) throw new Error(`timed out waiting for ${what}`)
-    await new Promise((r) => setTimeout(r, 300))
-  }
-}
+// This file's server sends mail to its own fake SMTP server; the test reads the reset e-mail from its mailbox.
+const app = useProduct({ fakeSmtp: true })
 
 describe('passwords in the browser', () => {
   it('"Forgot password?" → the e-mail in the fake mailbox → the reset page → sign in with the new password; the link then refuses', async () => {
     const l = await makeUser('listener', 'Browser Listener Ilse')
     const sup = await makeUser('supervisor', 'Browser Mailbox Reader')
-    const context = await browser.newContext()
+    const context = await app.browser.newContext()
     const page = await context.newPage()
     page.setDefaultTimeout(45_000)
-    await page.goto(`${server.url}/sign-in`, { waitUntil: 'networkidle' })
+    await page.goto(`${app.server.url}/sign-in`, { waitUntil: 'networkidle' })
     await page.getByTestId('signin-email').locator('input').fill(l.email)
     await page.getByTestId('signin-forgot').click()
     await page.waitForURL(/\/forgot-password/)
@@ -52,15 +23,15 @@ describe('passwords in the browser', () => {
     await expect.poll(() => page.getByTestId('forgot-sent').textContent()).toMatch(/If that address belongs to a Roomwright account/)
 
     // The e-mail as the local fake SMTP server received it (read as a supervisor, as the mailbox page does).
-    const reader = await sessionFor(server.url, sup.email, sup.password)
+    const reader = await sessionFor(app.server.url, sup.email, sup.password)
     const link = await waitFor('the reset e-mail in the fake mailbox', async () => {
       const box = (await reader.agent.get(`/api/dev/mailbox?to=${encodeURIComponent(l.email)}`).expect(200)).body.messages as { subject: string; text: string }[]
       const mail = box.find((m) => /new Roomwright password/.test(m.subject))
       return mail && /https?:\/\/\S+\/reset-password#token=[A-Za-z0-9_-]{43}/.exec(mail.text)?.[0]
-    })
+    }, 60_000)
     const path = new URL(link).pathname + new URL(link).hash
 
-    await page.goto(`${server.url}${path}`)
+    await page.goto(`${app.server.url}${path}`)
     await expect.poll(() => page.getByTestId('page-title').textContent()).toMatch(/Choose a new password/)
     await page.getByTestId('reset-password').locator('input').fill('heron-slate-meadow-48')
     await page.getByTestId('reset-repeat').locator('input').fill('heron-slate-meadow-48')
@@ -70,11 +41,11 @@ describe('passwords in the browser', () => {
     await page.getByTestId('signin-reset-done').waitFor()
     await context.close()
 
-    const again = await browser.newContext()
-    const signedIn = await signInAs(again, server.url, l.email, 'heron-slate-meadow-48')
+    const again = await app.browser.newContext()
+    const signedIn = await signInAs(again, app.server.url, l.email, 'heron-slate-meadow-48')
     await signedIn.waitForURL(/\/cases$/)
     const reuse = await again.newPage()
-    await reuse.goto(`${server.url}${path}`)
+    await reuse.goto(`${app.server.url}${path}`)
     await reuse.getByTestId('reset-password').locator('input').fill('another-fresh-password-2')
     await reuse.getByTestId('reset-repeat').locator('input').fill('another-fresh-password-2')
     await reuse.getByTestId('reset-submit').click()
@@ -84,11 +55,11 @@ describe('passwords in the browser', () => {
 
   it('the account page changes the password with the current one; a wrong current password is named on its field', async () => {
     const a = await makeUser('advisor', 'Browser Advisor Jorunn')
-    const other = await sessionFor(server.url, a.email, a.password)
-    const context = await browser.newContext()
-    const page = await signInAs(context, server.url, a.email, a.password)
+    const other = await sessionFor(app.server.url, a.email, a.password)
+    const context = await app.browser.newContext()
+    const page = await signInAs(context, app.server.url, a.email, a.password)
     await page.waitForURL(/\/queue/)
-    await page.goto(`${server.url}/account`)
+    await page.goto(`${app.server.url}/account`)
     const form = page.getByTestId('account-password')
     await form.getByTestId('account-current-password').locator('input').fill('not-the-password-0')
     await form.getByTestId('account-new-password').locator('input').fill('tidal-ember-quarry-62')

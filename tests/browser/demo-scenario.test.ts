@@ -1,26 +1,14 @@
-import { afterAll, beforeAll, describe, expect, it } from 'vitest'
-import type { Browser } from 'playwright-core'
+import { describe, expect, it } from 'vitest'
 import { join } from 'node:path'
 import { QueryTypes } from 'sequelize'
-import { launchBrowser, screenshotDir, signInAs, startProduct } from '../helpers/browser'
+import { screenshotDir, signInAs, useProduct } from '../helpers/browser'
 import { db } from '../../server/db/sequelize'
 import { seedDemo } from '../../server/seed'
 import { DEMO_PASSWORD } from '../../server/seed/people'
-import type { RunningServer } from '../../server/server'
 
-let server: RunningServer
-let browser: Browser
 const q = <T extends object>(sql: string, bind: unknown[] = []) => db().query<T>(sql, { bind, type: QueryTypes.SELECT })
 
-beforeAll(async () => {
-  await seedDemo()
-  server = await startProduct()
-  browser = await launchBrowser()
-}, 600_000)
-afterAll(async () => {
-  await browser?.close()
-  await server?.close()
-})
+const app = useProduct({ before: seedDemo, timeout: 600_000 })
 
 describe('the demo scenario — every seeded case is consistent with its status', () => {
   it('shows every status of the lifecycle, with the named demo people and the invented history', async () => {
@@ -71,12 +59,12 @@ describe('the demo scenario — every seeded case is consistent with its status'
   })
 
   it('the demo listener opens her case with a plan and reads its steps and predicted result (screenshot saved)', async () => {
-    const context = await browser.newContext({ viewport: { width: 1280, height: 900 } })
-    const page = await signInAs(context, server.url, 'listener@roomwright.test', DEMO_PASSWORD)
+    const context = await app.browser.newContext({ viewport: { width: 1280, height: 900 } })
+    const page = await signInAs(context, app.server.url, 'listener@roomwright.test', DEMO_PASSWORD)
     await page.waitForURL(/\/(cases|rooms|home)?/)
     const [c] = await q<{ id: string }>(`SELECT c.id FROM cases c JOIN users u ON u.id = c.listener_id WHERE u.email = 'listener@roomwright.test' AND c.status = 'plan_sent'`)
     expect(c).toBeTruthy()
-    await page.goto(`${server.url}/cases/${c.id}`)
+    await page.goto(`${app.server.url}/cases/${c.id}`)
     const plan = page.getByTestId('plan-for-listener')
     await expect.poll(() => plan.textContent(), { timeout: 30_000 }).toMatch(/What to do, in this order/)
     await expect.poll(() => plan.textContent()).toMatch(/corner/i)
@@ -89,10 +77,10 @@ describe('the demo scenario — every seeded case is consistent with its status'
     const snippets = await q<{ title: string }>(`SELECT title FROM reply_snippets WHERE scope = 'team'`)
     expect(snippets.length).toBeGreaterThanOrEqual(5)
     const [c] = await q<{ id: string }>(`SELECT c.id FROM cases c JOIN users u ON u.id = c.listener_id WHERE u.email = 'jonas.mbeki@roomwright.test' AND c.status = 'in_review'`)
-    const context = await browser.newContext({ viewport: { width: 1440, height: 900 } })
-    const page = await signInAs(context, server.url, 'advisor@roomwright.test', DEMO_PASSWORD)
+    const context = await app.browser.newContext({ viewport: { width: 1440, height: 900 } })
+    const page = await signInAs(context, app.server.url, 'advisor@roomwright.test', DEMO_PASSWORD)
     await page.waitForURL(/\/queue(\?|$)/)
-    await page.goto(`${server.url}/desk/cases/${c.id}`)
+    await page.goto(`${app.server.url}/desk/cases/${c.id}`)
     await page.getByTestId('snippet-picker').click()
     await page.getByTestId('snippet-item').filter({ hasText: 'first look at the room' }).click()
     const text = page.getByTestId('composer-input').locator('textarea').first()

@@ -1,43 +1,14 @@
-import { afterAll, beforeAll, describe, expect, it } from 'vitest'
-import type { Browser } from 'playwright-core'
+import { describe, expect, it } from 'vitest'
 import nodemailer from 'nodemailer'
 import { join } from 'node:path'
 import { QueryTypes } from 'sequelize'
-import { launchBrowser, screenshotDir, signInAs, startProduct } from '../helpers/browser'
+import { screenshotDir, signInAs, useProduct, waitFor } from '../helpers/browser'
 import { makeUser } from '../helpers/api'
 import { sessionFor } from '../helpers/sockets'
 import { testRoom } from '../helpers/rooms'
-import { freePort } from '../../server/dev/cluster'
-import type { RunningServer } from '../../server/server'
-import type { FakeSmtp } from '../../server/mail/fake-smtp'
 
-let server: RunningServer
-let smtp: FakeSmtp
-let browser: Browser
-beforeAll(async () => {
-  // This file's server sends mail to its own fake SMTP server.
-  process.env.SMTP_PORT = String(await freePort())
-  process.env.FAKE_SMTP = 'on'
-  const { startFakeSmtp } = await import('../../server/mail/fake-smtp')
-  smtp = await startFakeSmtp({ port: Number(process.env.SMTP_PORT) })
-  server = await startProduct()
-  browser = await launchBrowser()
-})
-afterAll(async () => {
-  await browser?.close()
-  await server?.close()
-  await smtp?.stop()
-})
-
-async function waitFor<T>(what: string, fn: () => Promise<T | undefined | null | false>, ms = 30_000): Promise<T> {
-  const until = Date.now() + ms
-  for (;;) {
-    const v = await fn()
-    if (v) return v
-    if (Date.now() > until) throw new Error(`timed out waiting for ${what}`)
-    await new Promise((r) => setTimeout(r, 300))
-  }
-}
+// This file's server sends mail to its own fake SMTP server.
+const app = useProduct({ fakeSmtp: true })
 
 describe('advisor and listener in two browsers, with e-mail both ways', () => {
   it('the reply shows live for the listener, reaches the mailbox, and the e-mailed answer shows live for the advisor', async () => {
@@ -45,20 +16,20 @@ describe('advisor and listener in two browsers, with e-mail both ways', () => {
     const a = await makeUser('advisor', 'Kasimir Oduya')
     const s = await makeUser('supervisor', 'Wenke Aalto')
     // The listener's case, set up over HTTP.
-    const lh = await sessionFor(server.url, l.email, l.password)
+    const lh = await sessionFor(app.server.url, l.email, l.password)
     const room = (await lh.agent.post('/api/rooms').set('X-CSRF-Token', lh.csrf).send(testRoom({ name: 'Music room with a piano' })).expect(201)).body
     const c = (await lh.agent.post('/api/cases').set('X-CSRF-Token', lh.csrf).send({ roomId: room.id, title: 'Piano sounds thin from the sofa' }).expect(201)).body
     await lh.agent.patch(`/api/cases/${c.id}`).set('X-CSRF-Token', lh.csrf).send({ status: 'submitted', fromStatus: 'draft' }).expect(200)
 
-    const listenerCtx = await browser.newContext({ viewport: { width: 1280, height: 900 } })
-    const advisorCtx = await browser.newContext({ viewport: { width: 1440, height: 900 } })
-    const lp = await signInAs(listenerCtx, server.url, l.email, l.password)
+    const listenerCtx = await app.browser.newContext({ viewport: { width: 1280, height: 900 } })
+    const advisorCtx = await app.browser.newContext({ viewport: { width: 1440, height: 900 } })
+    const lp = await signInAs(listenerCtx, app.server.url, l.email, l.password)
     await lp.waitForURL(/\/cases$/)
-    await lp.goto(`${server.url}/cases/${c.id}`)
+    await lp.goto(`${app.server.url}/cases/${c.id}`)
     await lp.getByTestId('thread').waitFor()
-    const ap = await signInAs(advisorCtx, server.url, a.email, a.password)
+    const ap = await signInAs(advisorCtx, app.server.url, a.email, a.password)
     await ap.waitForURL(/\/queue(\?|$)/)
-    await ap.goto(`${server.url}/desk/cases/${c.id}`)
+    await ap.goto(`${app.server.url}/desk/cases/${c.id}`)
     await ap.getByTestId('composer-input').waitFor()
 
     // The advisor replies; the listener's open page shows it without a reload.
@@ -70,7 +41,7 @@ describe('advisor and listener in two browsers, with e-mail both ways', () => {
     )
 
     // The e-mail reached the fake mailbox (read as a supervisor, as the mailbox page does).
-    const sh = await sessionFor(server.url, s.email, s.password)
+    const sh = await sessionFor(app.server.url, s.email, s.password)
     const mail = await waitFor('the reply e-mail', async () => {
       const box = (await sh.agent.get(`/api/dev/mailbox?to=${encodeURIComponent(l.email)}`).expect(200)).body.messages as { subject: string; html: string; text: string; headers: Record<string, string> }[]
       return box.find((m) => /Could you try the sofa/.test(m.text ?? ''))
@@ -79,10 +50,10 @@ describe('advisor and listener in two browsers, with e-mail both ways', () => {
     // The markdown is rendered (and sanitised) in the e-mail's HTML part.
     expect(mail.html).toContain('<strong>30 cm further from the back wall</strong>')
     // The mailbox page shows the Reply-To address that reply-by-e-mail depends on.
-    const supCtx = await browser.newContext({ viewport: { width: 1280, height: 900 } })
-    const sp = await signInAs(supCtx, server.url, s.email, s.password)
+    const supCtx = await app.browser.newContext({ viewport: { width: 1280, height: 900 } })
+    const sp = await signInAs(supCtx, app.server.url, s.email, s.password)
     await sp.waitForURL(/\/dashboard$/)
-    await sp.goto(`${server.url}/mailbox`)
+    await sp.goto(`${app.server.url}/mailbox`)
     await sp.getByText(mail.subject).first().click()
     await expect.poll(() => sp.getByTestId('mailbox-reply-to').textContent()).toMatch(/Reply-To: .*reply\+[A-Za-z0-9]+@/)
     await supCtx.close()
@@ -90,7 +61,7 @@ describe('advisor and listener in two browsers, with e-mail both ways', () => {
     const [{ reply_token: token }] = await db().query<{ reply_token: string }>('SELECT reply_token FROM cases WHERE id = $1', { bind: [c.id], type: QueryTypes.SELECT })
 
     // The listener answers by e-mail (through the fake SMTP server); the advisor's page shows it live.
-    const transport = nodemailer.createTransport({ host: '127.0.0.1', port: smtp.port, secure: false, ignoreTLS: true })
+    const transport = nodemailer.createTransport({ host: '127.0.0.1', port: app.smtp.port, secure: false, ignoreTLS: true })
     await transport.sendMail({
       from: l.email,
       to: `reply+${token}@reply.roomwright.test`,

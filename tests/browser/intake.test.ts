@@ -1,22 +1,11 @@
-import { afterAll, beforeAll, describe, expect, it } from 'vitest'
-import type { Browser } from 'playwright-core'
+import { describe, expect, it } from 'vitest'
 import { join } from 'node:path'
-import { launchBrowser, screenshotDir, signInAs, startProduct } from '../helpers/browser'
+import { screenshotDir, signInAs, useProduct } from '../helpers/browser'
 import { makeUser } from '../helpers/api'
 import { jpeg } from '../unit/uploads/make-files'
 import { addPulse, exponentialDecay, writeWav } from '../unit/signal/synthetic'
-import type { RunningServer } from '../../server/server'
 
-let server: RunningServer
-let browser: Browser
-beforeAll(async () => {
-  server = await startProduct()
-  browser = await launchBrowser()
-})
-afterAll(async () => {
-  await browser?.close()
-  await server?.close()
-})
+const app = useProduct()
 
 /** A 2 s, 48 kHz synthetic impulse response (T = 0.5 s) with one early reflection, as a 24-bit WAV. */
 function measurement(): Buffer {
@@ -29,12 +18,12 @@ function measurement(): Buffer {
 describe('a listener describes a room in imperial units, opens a case, uploads and submits', () => {
   it('works end to end in the browser', async () => {
     const user = await makeUser('listener', 'Browser Intake')
-    const context = await browser.newContext({ viewport: { width: 1440, height: 900 } })
-    const page = await signInAs(context, server.url, user.email, user.password)
+    const context = await app.browser.newContext({ viewport: { width: 1440, height: 900 } })
+    const page = await signInAs(context, app.server.url, user.email, user.password)
     await page.waitForURL(/\/cases$/)
 
     // Room editor, imperial units: 18 ft 6 in = 5.6388 m.
-    await page.goto(`${server.url}/rooms/new`)
+    await page.goto(`${app.server.url}/rooms/new`)
     await page.getByTestId('units-imperial').click()
     await page.getByTestId('room-name').locator('input').fill('Den over the garage')
     await page.getByTestId('room-length').locator('input').fill('18 ft 6 in')
@@ -61,7 +50,7 @@ describe('a listener describes a room in imperial units, opens a case, uploads a
     await page.waitForURL(/\/rooms\/[0-9a-f-]{36}/)
 
     // Open a case on it.
-    await page.goto(`${server.url}/cases/new`)
+    await page.goto(`${app.server.url}/cases/new`)
     await page.getByTestId('case-room').click()
     await page.getByRole('option', { name: /Den over the garage/ }).click()
     await page.getByTestId('case-title').locator('input').fill('Bass notes hang on in the den')

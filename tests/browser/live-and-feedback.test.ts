@@ -1,8 +1,8 @@
-import { afterAll, beforeAll, describe, expect, it } from 'vitest'
-import type { Browser, Page } from 'playwright-core'
+import { describe, expect, it } from 'vitest'
+import type { Page } from 'playwright-core'
 import { randomUUID } from 'node:crypto'
 import { join } from 'node:path'
-import { launchBrowser, screenshotDir, signInAs, startProduct } from '../helpers/browser'
+import { failingAnswers, screenshotDir, signInAs, useProduct } from '../helpers/browser'
 import { makeUser } from '../helpers/api'
 import { createRoom } from '../../server/services/rooms'
 import { createCase, updateCase } from '../../server/services/cases'
@@ -14,27 +14,11 @@ import { demoRooms } from '../../server/seed/rooms'
 import { demoPlanBody } from '../../server/seed/demo-plan'
 import { syntheticImpulseResponse } from '../../server/seed/synthetic-measurement'
 import { roomSchema } from '../../shared/schemas/room'
-import type { RunningServer } from '../../server/server'
 
-let server: RunningServer
-let browser: Browser
-beforeAll(async () => {
-  server = await startProduct()
-  browser = await launchBrowser()
-})
-afterAll(async () => {
-  await browser?.close()
-  await server?.close()
-})
+const app = useProduct()
 
 /** Every answer of 400 or more the page receives from our own server. */
-function failures(page: Page): string[] {
-  const seen: string[] = []
-  page.on('response', (r) => {
-    if (r.status() >= 400 && r.url().startsWith(server.url)) seen.push(`${r.status()} ${r.request().method()} ${new URL(r.url()).pathname}`)
-  })
-  return seen
-}
+const failures = (page: Page) => failingAnswers(page, app.server.url)
 
 async function listenerCase(title: string) {
   const listener = await makeUser('listener', 'Yara Feldhaus')
@@ -50,10 +34,10 @@ describe("the listener's case page follows the case live", () => {
     await updateCase(listener, c.id, { status: 'submitted', fromStatus: 'draft' })
     await updateCase(advisor, c.id, { status: 'in_review', fromStatus: 'submitted' })
 
-    const context = await browser.newContext({ viewport: { width: 1280, height: 900 } })
-    const page = await signInAs(context, server.url, listener.email, listener.password)
+    const context = await app.browser.newContext({ viewport: { width: 1280, height: 900 } })
+    const page = await signInAs(context, app.server.url, listener.email, listener.password)
     await page.waitForURL(/\/cases$/)
-    await page.goto(`${server.url}/cases/${c.id}`, { waitUntil: 'networkidle' })
+    await page.goto(`${app.server.url}/cases/${c.id}`, { waitUntil: 'networkidle' })
     await page.getByTestId('plan-none-yet').waitFor()
     let reloads = 0
     page.on('framenavigated', (f) => f === page.mainFrame() && reloads++)
@@ -78,11 +62,11 @@ describe("the listener's case page follows the case live", () => {
 
   it('a draft case page makes no request that fails (no triage is asked for before submission)', async () => {
     const { listener, c } = await listenerCase('Draft without a triage')
-    const context = await browser.newContext({ viewport: { width: 1280, height: 900 } })
-    const page = await signInAs(context, server.url, listener.email, listener.password)
+    const context = await app.browser.newContext({ viewport: { width: 1280, height: 900 } })
+    const page = await signInAs(context, app.server.url, listener.email, listener.password)
     await page.waitForURL(/\/cases$/)
     const failed = failures(page)
-    await page.goto(`${server.url}/cases/${c.id}`, { waitUntil: 'networkidle' })
+    await page.goto(`${app.server.url}/cases/${c.id}`, { waitUntil: 'networkidle' })
     await page.getByTestId('case-submit').waitFor()
     expect(failed).toEqual([])
     await context.close()
@@ -97,8 +81,8 @@ describe('the desk confirms each action where the eye is', () => {
     const { listener, c } = await listenerCase(title)
     await updateCase(listener, c.id, { status: 'submitted', fromStatus: 'draft' })
 
-    const context = await browser.newContext({ viewport: { width: 1440, height: 900 } })
-    const page = await signInAs(context, server.url, me.email, me.password)
+    const context = await app.browser.newContext({ viewport: { width: 1440, height: 900 } })
+    const page = await signInAs(context, app.server.url, me.email, me.password)
     page.setDefaultTimeout(30_000)
     await page.waitForURL(/\/queue(\?|$)/)
     await page.getByTestId('queue-search').locator('input').fill(title)
@@ -111,7 +95,7 @@ describe('the desk confirms each action where the eye is', () => {
     await page.getByTestId('save-filter-confirm').click()
     await expect.poll(() => page.getByTestId('saved-filter-confirm').textContent()).toMatch(/Saved as "My feedback search"/)
 
-    await page.goto(`${server.url}/desk/cases/${c.id}`)
+    await page.goto(`${app.server.url}/desk/cases/${c.id}`)
     const composer = page.getByTestId('composer-input')
     await composer.locator('textarea').first().fill('Thanks for writing in; I will look at the bass modes at your desk today.')
     await page.getByTestId('snippet-picker').click()

@@ -1,31 +1,16 @@
-import { afterAll, beforeAll, describe, expect, it } from 'vitest'
-import type { Browser } from 'playwright-core'
+import { describe, expect, it } from 'vitest'
 import { join } from 'node:path'
-import request from 'supertest'
-import { launchBrowser, screenshotDir, signInAs, startProduct } from '../helpers/browser'
+import { screenshotDir, signInAs, useProduct } from '../helpers/browser'
 import { makeUser } from '../helpers/api'
+import { sessionFor } from '../helpers/sockets'
 import { testRoom } from '../helpers/rooms'
 import { writeWav } from '../unit/signal/synthetic'
 import { modalIr } from '../unit/signal/modal-synthetic'
-import type { RunningServer } from '../../server/server'
 
-let server: RunningServer
-let browser: Browser
-beforeAll(async () => {
-  server = await startProduct()
-  browser = await launchBrowser()
-})
-afterAll(async () => {
-  await browser?.close()
-  await server?.close()
-})
+const app = useProduct()
 
-async function agentFor(user: { email: string; password: string }) {
-  const agent = request.agent(server.url)
-  const { body } = await agent.get('/api/auth/csrf').expect(200)
-  await agent.post('/api/auth/login').set('X-CSRF-Token', body.token).send(user).expect(200)
-  return { agent, csrf: body.token as string }
-}
+/** A signed-in API agent against the running product. */
+const agentFor = (user: { email: string; password: string }) => sessionFor(app.server.url, user.email, user.password)
 
 // The room as the listener states it (5.0 m long) and a measurement made in a room 0.3 m longer:
 // the modal impulse response of tests/unit/signal/modal-synthetic.ts (Rayleigh's closed form).
@@ -60,10 +45,10 @@ describe('measured bass peaks explained', () => {
     await l.agent.post(`/api/cases/${caseId}/files`).set('X-CSRF-Token', l.csrf).attach('file', measurement(), 'sofa-left.wav').expect(201)
     await expect.poll(async () => (await l.agent.get(`/api/cases/${caseId}/files`)).body.files[0]?.analysis?.status, { timeout: 60_000, interval: 1000 }).toBe('done')
 
-    const context = await browser.newContext({ viewport: { width: 1500, height: 1000 } })
-    const page = await signInAs(context, server.url, advisor.email, advisor.password)
+    const context = await app.browser.newContext({ viewport: { width: 1500, height: 1000 } })
+    const page = await signInAs(context, app.server.url, advisor.email, advisor.password)
     await page.waitForURL(/\/queue(\?|$)/)
-    await page.goto(`${server.url}/desk/cases/${caseId}`)
+    await page.goto(`${app.server.url}/desk/cases/${caseId}`)
     await page.getByTestId('tab-bass-peaks').click({ timeout: 30_000 })
     const labels = page.getByTestId('lf-peak-label')
     await expect.poll(() => labels.count(), { timeout: 15_000 }).toBeGreaterThan(2)
@@ -76,10 +61,10 @@ describe('measured bass peaks explained', () => {
     await page.screenshot({ path: join(screenshotDir(), 'workspace-bass-peaks.png'), fullPage: true })
     await context.close()
 
-    const lc = await browser.newContext({ viewport: { width: 1100, height: 1000 } })
-    const lp = await signInAs(lc, server.url, listener.email, listener.password)
+    const lc = await app.browser.newContext({ viewport: { width: 1100, height: 1000 } })
+    const lp = await signInAs(lc, app.server.url, listener.email, listener.password)
     await lp.waitForURL(/\/cases$/)
-    await lp.goto(`${server.url}/cases/${caseId}`)
+    await lp.goto(`${app.server.url}/cases/${caseId}`)
     await lp.getByTestId('tab-bass-peaks').click({ timeout: 30_000 })
     expect(await lp.getByTestId('lf-plain').textContent()).toMatch(/come from the room's own resonances/)
     expect(await lp.getByTestId('lf-diagnosis').textContent()).toMatch(/Could you measure it again\?/)
@@ -88,10 +73,10 @@ describe('measured bass peaks explained', () => {
 
   it('the plan editor searches subwoofer layouts for the sofa, draws the best on the plan and adopts it with its predicted before and after', async () => {
     const { advisor, a, caseId } = await submittedCase('Browser bass: where should the subwoofers go')
-    const context = await browser.newContext({ viewport: { width: 1500, height: 1100 } })
-    const page = await signInAs(context, server.url, advisor.email, advisor.password)
+    const context = await app.browser.newContext({ viewport: { width: 1500, height: 1100 } })
+    const page = await signInAs(context, app.server.url, advisor.email, advisor.password)
     await page.waitForURL(/\/queue(\?|$)/)
-    await page.goto(`${server.url}/desk/cases/${caseId}/plan`)
+    await page.goto(`${app.server.url}/desk/cases/${caseId}/plan`)
     await page.getByTestId('plan-subwoofer-search-panel').click({ timeout: 20_000 })
     await page.getByTestId('subwoofer-search').click()
     await page.getByTestId('subwoofer-figures').waitFor({ timeout: 30_000 })

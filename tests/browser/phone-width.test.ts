@@ -1,6 +1,6 @@
-import { afterAll, beforeAll, describe, expect, it } from 'vitest'
-import type { Browser, Page } from 'playwright-core'
-import { launchBrowser, signInAs, startProduct } from '../helpers/browser'
+import { describe, expect, it } from 'vitest'
+import type { Page } from 'playwright-core'
+import { signInAs, useProduct } from '../helpers/browser'
 import { makeUser } from '../helpers/api'
 import { createRoom } from '../../server/services/rooms'
 import { createCase, updateCase } from '../../server/services/cases'
@@ -8,18 +8,8 @@ import { createPlan } from '../../server/services/plans'
 import { demoRooms } from '../../server/seed/rooms'
 import { demoPlanBody } from '../../server/seed/demo-plan'
 import { roomSchema } from '../../shared/schemas/room'
-import type { RunningServer } from '../../server/server'
 
-let server: RunningServer
-let browser: Browser
-beforeAll(async () => {
-  server = await startProduct()
-  browser = await launchBrowser()
-}, 120_000)
-afterAll(async () => {
-  await browser?.close()
-  await server?.close()
-})
+const app = useProduct({ timeout: 120_000 })
 
 const PHONE = { width: 390, height: 844 }
 
@@ -57,11 +47,11 @@ describe('on a 390 px phone no page scrolls sideways', () => {
     ]
     const wide: Record<string, unknown> = {}
     for (const [who, paths] of visits) {
-      const context = await browser.newContext({ viewport: PHONE, isMobile: true, hasTouch: true })
-      const page = await signInAs(context, server.url, who.email, who.password)
+      const context = await app.browser.newContext({ viewport: PHONE, isMobile: true, hasTouch: true })
+      const page = await signInAs(context, app.server.url, who.email, who.password)
       await page.waitForURL((u) => !u.pathname.startsWith('/sign-in'))
       for (const path of paths) {
-        await page.goto(`${server.url}${path}`, { waitUntil: 'networkidle' })
+        await page.goto(`${app.server.url}${path}`, { waitUntil: 'networkidle' })
         await page.locator('main').first().waitFor()
         await page.waitForTimeout(1500) // charts and drawings lay out after the data arrives
         const w = await width(page)

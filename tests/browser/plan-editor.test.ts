@@ -1,30 +1,14 @@
-import { afterAll, beforeAll, describe, expect, it } from 'vitest'
-import type { Browser } from 'playwright-core'
+import { describe, expect, it } from 'vitest'
 import { join } from 'node:path'
-import request from 'supertest'
-import { launchBrowser, screenshotDir, signInAs, startProduct } from '../helpers/browser'
+import { screenshotDir, signInAs, useProduct } from '../helpers/browser'
 import { makeUser } from '../helpers/api'
+import { sessionFor } from '../helpers/sockets'
 import { testRoom } from '../helpers/rooms'
-import type { RunningServer } from '../../server/server'
 
-let server: RunningServer
-let browser: Browser
-beforeAll(async () => {
-  server = await startProduct()
-  browser = await launchBrowser()
-})
-afterAll(async () => {
-  await browser?.close()
-  await server?.close()
-})
+const app = useProduct()
 
 /** A signed-in API agent against the running product. */
-async function agentFor(user: { email: string; password: string }) {
-  const agent = request.agent(server.url)
-  const { body } = await agent.get('/api/auth/csrf').expect(200)
-  await agent.post('/api/auth/login').set('X-CSRF-Token', body.token).send(user).expect(200)
-  return { agent, csrf: body.token as string }
-}
+const agentFor = (user: { email: string; password: string }) => sessionFor(app.server.url, user.email, user.password)
 
 describe('the plan editor', () => {
   it('an advisor places a panel on a reflection point, sees the prediction, saves and sends; the listener opens the printable plan', async () => {
@@ -37,10 +21,10 @@ describe('the plan editor', () => {
     const a = await agentFor(advisor)
     await a.agent.patch(`/api/cases/${c.id}`).set('X-CSRF-Token', a.csrf).send({ status: 'in_review', fromStatus: 'submitted' }).expect(200)
 
-    const context = await browser.newContext({ viewport: { width: 1500, height: 1000 } })
-    const page = await signInAs(context, server.url, advisor.email, advisor.password)
+    const context = await app.browser.newContext({ viewport: { width: 1500, height: 1000 } })
+    const page = await signInAs(context, app.server.url, advisor.email, advisor.password)
     await page.waitForURL(/\/queue(\?|$)/)
-    await page.goto(`${server.url}/desk/cases/${c.id}/plan`)
+    await page.goto(`${app.server.url}/desk/cases/${c.id}/plan`)
     const target = page.getByTestId('plan-target-mirror-L-left')
     await target.waitFor({ timeout: 20_000 })
     await target.hover()
@@ -62,10 +46,10 @@ describe('the plan editor', () => {
     expect((await l.agent.get(`/api/cases/${c.id}`)).body.status).toBe('plan_sent')
     await context.close()
 
-    const lc = await browser.newContext({ viewport: { width: 1100, height: 1000 } })
-    const lp = await signInAs(lc, server.url, listener.email, listener.password)
+    const lc = await app.browser.newContext({ viewport: { width: 1100, height: 1000 } })
+    const lp = await signInAs(lc, app.server.url, listener.email, listener.password)
     await lp.waitForURL(/\/cases$/)
-    await lp.goto(`${server.url}/cases/${c.id}/plans/1/report`)
+    await lp.goto(`${app.server.url}/cases/${c.id}/plans/1/report`)
     await lp.getByTestId('plan-report').waitFor({ timeout: 15_000 })
     await expect.poll(() => lp.getByTestId('plan-steps').locator('li').count()).toBe(3)
     expect(await lp.getByTestId('plan-cautions').textContent()).toMatch(/fixings rated for the load/)

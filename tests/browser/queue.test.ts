@@ -1,22 +1,10 @@
-import { afterAll, beforeAll, describe, expect, it } from 'vitest'
-import type { Browser } from 'playwright-core'
+import { describe, expect, it } from 'vitest'
 import { join } from 'node:path'
-import { launchBrowser, screenshotDir, signInAs, startProduct } from '../helpers/browser'
+import { screenshotDir, signInAs, useProduct } from '../helpers/browser'
 import { closeTestApp, makeUser, signedIn } from '../helpers/api'
 import { openCase } from '../helpers/cases'
-import type { RunningServer } from '../../server/server'
 
-let server: RunningServer
-let browser: Browser
-beforeAll(async () => {
-  server = await startProduct()
-  browser = await launchBrowser()
-})
-afterAll(async () => {
-  await browser?.close()
-  await server?.close()
-  await closeTestApp()
-})
+const app = useProduct({ after: closeTestApp })
 
 describe("the advisor's queue", () => {
   it('opens on open work, says so, and shows closed cases one click away', async () => {
@@ -27,8 +15,8 @@ describe("the advisor's queue", () => {
     const { case: done } = await openCase(listener.c, { title: 'Queue browser: already settled' })
     await staff.c.patch(`/api/cases/${done.id}`, { status: 'closed', fromStatus: 'submitted' }).expect(200)
 
-    const context = await browser.newContext({ viewport: { width: 1440, height: 900 } })
-    const page = await signInAs(context, server.url, advisor.email, advisor.password)
+    const context = await app.browser.newContext({ viewport: { width: 1440, height: 900 } })
+    const page = await signInAs(context, app.server.url, advisor.email, advisor.password)
     await page.waitForURL(/\/queue(\?|$)/, { timeout: 15_000 })
     await expect.poll(() => page.getByTestId('queue-coverage').textContent(), { timeout: 15_000 }).toMatch(/open work.*what needs an answer first/)
     const rowIds = () => page.getByTestId('queue-row').evaluateAll((rows) => rows.map((r) => r.getAttribute('data-case-id')))

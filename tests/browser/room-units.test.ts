@@ -1,7 +1,7 @@
-import { afterAll, beforeAll, describe, expect, it } from 'vitest'
-import type { Browser, Page } from 'playwright-core'
+import { describe, expect, it } from 'vitest'
+import type { Page } from 'playwright-core'
 import { randomUUID } from 'node:crypto'
-import { launchBrowser, signInAs, startProduct } from '../helpers/browser'
+import { consoleErrors, signInAs, useProduct } from '../helpers/browser'
 import { makeUser } from '../helpers/api'
 import { createRoom } from '../../server/services/rooms'
 import { createCase, updateCase } from '../../server/services/cases'
@@ -9,31 +9,19 @@ import { addCaseFile } from '../../server/services/files'
 import { storage } from '../../server/storage'
 import { demoRooms } from '../../server/seed/rooms'
 import { roomSchema } from '../../shared/schemas/room'
-import type { RunningServer } from '../../server/server'
 
-let server: RunningServer
-let browser: Browser
-beforeAll(async () => {
-  server = await startProduct()
-  browser = await launchBrowser()
-})
-afterAll(async () => {
-  await browser?.close()
-  await server?.close()
-})
+const app = useProduct()
 
 const input = (page: Page, id: string) => page.getByTestId(id).locator('input')
 
 describe('the room form in feet and inches', () => {
   it('reads the forms people type, says what a bare number means and that the choice is kept; errors speak feet', async () => {
     const l = await makeUser('listener', 'Hollis Varga')
-    const context = await browser.newContext({ viewport: { width: 1440, height: 900 } })
-    const page = await signInAs(context, server.url, l.email, l.password)
-    const consoleErrors: string[] = []
-    page.on('console', (m) => m.type() === 'error' && consoleErrors.push(m.text()))
-    page.on('pageerror', (e) => consoleErrors.push(String(e)))
+    const context = await app.browser.newContext({ viewport: { width: 1440, height: 900 } })
+    const page = await signInAs(context, app.server.url, l.email, l.password)
+    const errors = consoleErrors(page)
     await page.waitForURL(/\/cases$/)
-    await page.goto(`${server.url}/rooms/new`, { waitUntil: 'networkidle' })
+    await page.goto(`${app.server.url}/rooms/new`, { waitUntil: 'networkidle' })
     await page.getByTestId('units-imperial').click()
     await expect.poll(() => page.getByTestId('units-remembered').textContent()).toMatch(/Feet and inches: kept for your next visit/)
 
@@ -66,7 +54,7 @@ describe('the room form in feet and inches', () => {
     await input(page, 'room-height').focus()
     await expect.poll(() => page.getByTestId('room-save-status').textContent()).not.toMatch(/Not saved/)
     await expect.poll(() => page.locator('[data-testid="plan-waiting"]').count()).toBe(0)
-    expect(consoleErrors).toEqual([])
+    expect(errors).toEqual([])
     await context.close()
   }, 180_000)
 })
@@ -81,10 +69,10 @@ describe('a frequency-response file with the wrong header', () => {
     const key = `incoming/${randomUUID()}.txt`
     await storage().put(key, Buffer.from(text))
     await addCaseFile(l, c.id, { key, size: text.length, originalname: 'export.txt', mime: 'text/plain', mimetype: 'text/plain', kind: 'measurement', format: 'text', fieldname: 'file' })
-    const context = await browser.newContext({ viewport: { width: 1280, height: 900 } })
-    const page = await signInAs(context, server.url, l.email, l.password)
+    const context = await app.browser.newContext({ viewport: { width: 1280, height: 900 } })
+    const page = await signInAs(context, app.server.url, l.email, l.password)
     await page.waitForURL(/\/cases$/)
-    await page.goto(`${server.url}/cases/${c.id}`)
+    await page.goto(`${app.server.url}/cases/${c.id}`)
     await expect.poll(() => page.getByTestId('analysis-status-failed').count(), { timeout: 60_000 }).toBe(1)
     // the newest measurement opens by itself
     await expect.poll(() => page.getByTestId('analysis-header-example').textContent()).toMatch(/frequency_hz, spl_db\s+20, 78\.4/)

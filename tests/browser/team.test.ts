@@ -1,22 +1,11 @@
-import { afterAll, beforeAll, describe, expect, it } from 'vitest'
-import type { Browser } from 'playwright-core'
+import { describe, expect, it } from 'vitest'
 import { join } from 'node:path'
 import { QueryTypes } from 'sequelize'
-import { launchBrowser, screenshotDir, signInAs, startProduct } from '../helpers/browser'
+import { screenshotDir, signInAs, useProduct } from '../helpers/browser'
 import { makeUser, uniqueEmail } from '../helpers/api'
 import { db } from '../../server/db/sequelize'
-import type { RunningServer } from '../../server/server'
 
-let server: RunningServer
-let browser: Browser
-beforeAll(async () => {
-  server = await startProduct()
-  browser = await launchBrowser()
-})
-afterAll(async () => {
-  await browser?.close()
-  await server?.close()
-})
+const app = useProduct()
 
 async function invitationToken(email: string): Promise<string> {
   for (let i = 0; i < 50; i++) {
@@ -36,8 +25,8 @@ describe('the supervisor manages the team in the browser', () => {
     const keep = process.env.KEEP_SCREENSHOTS_IN
     if (keep) await (await import('../../server/seed/steps/0003-history')).insertHistory({ cases: 300, weeks: 12, listeners: 40, tag: `browser-${Date.now()}` })
     const sup = await makeUser('supervisor', 'Browser Supervisor Imke')
-    const context = await browser.newContext({ viewport: { width: 1440, height: 900 } })
-    const page = await signInAs(context, server.url, sup.email, sup.password)
+    const context = await app.browser.newContext({ viewport: { width: 1440, height: 900 } })
+    const page = await signInAs(context, app.server.url, sup.email, sup.password)
     await page.waitForURL(/\/dashboard$/)
     await page.getByTestId('dashboard-kpis').waitFor({ timeout: 15_000 })
     await page.getByTestId('breach-list').waitFor()
@@ -54,10 +43,10 @@ describe('the supervisor manages the team in the browser', () => {
 
   it('invites an advisor, who sets a password from the link and lands on the queue; the link then refuses', async () => {
     const sup = await makeUser('supervisor', 'Browser Supervisor Joost')
-    const context = await browser.newContext({ viewport: { width: 1280, height: 900 } })
-    const page = await signInAs(context, server.url, sup.email, sup.password)
+    const context = await app.browser.newContext({ viewport: { width: 1280, height: 900 } })
+    const page = await signInAs(context, app.server.url, sup.email, sup.password)
     await page.waitForURL(/\/dashboard$/)
-    await page.goto(`${server.url}/team`)
+    await page.goto(`${app.server.url}/team`)
     const email = uniqueEmail('browser-invitee')
     await page.getByTestId('open-invite').click()
     await page.getByTestId('invite-name').locator('input').fill('Saskia Oyelaran')
@@ -67,17 +56,17 @@ describe('the supervisor manages the team in the browser', () => {
     await page.screenshot({ path: join(screenshotDir(), 'team.png'), fullPage: true })
 
     const token = await invitationToken(email)
-    const invitee = await browser.newContext()
+    const invitee = await app.browser.newContext()
     const welcome = await invitee.newPage()
-    await welcome.goto(`${server.url}/welcome/${token}`)
+    await welcome.goto(`${app.server.url}/welcome/${token}`)
     await expect.poll(() => welcome.getByTestId('page-title').textContent()).toMatch(/Join/)
     await welcome.getByTestId('set-password-password').locator('input').fill('quince-harbour-lamp-93')
     await welcome.getByTestId('set-password-repeat').locator('input').fill('quince-harbour-lamp-93')
     await welcome.getByTestId('set-password-submit').click()
     await welcome.waitForURL(/\/queue(\?|$)/, { timeout: 15_000 })
 
-    const again = await (await browser.newContext()).newPage()
-    await again.goto(`${server.url}/welcome/${token}`)
+    const again = await (await app.browser.newContext()).newPage()
+    await again.goto(`${app.server.url}/welcome/${token}`)
     await expect.poll(() => again.getByTestId('invitation-gone').textContent()).toMatch(/already been used/)
 
     await page.reload()
@@ -89,20 +78,20 @@ describe('the supervisor manages the team in the browser', () => {
   it('switching an advisor off signs them out at once', async () => {
     const sup = await makeUser('supervisor', 'Browser Supervisor Lieke')
     const advisor = await makeUser('advisor', 'Browser Advisor Tomasz')
-    const advisorContext = await browser.newContext()
-    const advisorPage = await signInAs(advisorContext, server.url, advisor.email, advisor.password)
+    const advisorContext = await app.browser.newContext()
+    const advisorPage = await signInAs(advisorContext, app.server.url, advisor.email, advisor.password)
     await advisorPage.waitForURL(/\/queue(\?|$)/)
 
-    const context = await browser.newContext({ viewport: { width: 1280, height: 900 } })
-    const page = await signInAs(context, server.url, sup.email, sup.password)
+    const context = await app.browser.newContext({ viewport: { width: 1280, height: 900 } })
+    const page = await signInAs(context, app.server.url, sup.email, sup.password)
     await page.waitForURL(/\/dashboard$/)
-    await page.goto(`${server.url}/team`)
+    await page.goto(`${app.server.url}/team`)
     const row = page.getByTestId(`member-${advisor.email}`)
     await row.getByTestId('member-deactivate').click()
     await page.getByTestId('deactivate-confirm').click()
     await expect.poll(() => row.getByTestId('member-state').textContent()).toMatch(/Switched off/)
 
-    await advisorPage.goto(`${server.url}/queue`)
+    await advisorPage.goto(`${app.server.url}/queue`)
     await advisorPage.waitForURL(/\/sign-in/, { timeout: 15_000 })
     const audit = await db().query<{ action: string }>('SELECT action FROM audit_log WHERE target_user_id = $1', { bind: [advisor.id], type: QueryTypes.SELECT })
     expect(audit.map((a) => a.action)).toEqual(['member.deactivated'])

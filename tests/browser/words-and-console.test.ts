@@ -1,6 +1,6 @@
-import { afterAll, beforeAll, describe, expect, it } from 'vitest'
-import type { Browser, Page } from 'playwright-core'
-import { launchBrowser, signInAs, startProduct } from '../helpers/browser'
+import { describe, expect, it } from 'vitest'
+import type { Page } from 'playwright-core'
+import { signInAs, useProduct } from '../helpers/browser'
 import { makeUser } from '../helpers/api'
 import { createRoom } from '../../server/services/rooms'
 import { createCase, updateCase } from '../../server/services/cases'
@@ -9,18 +9,8 @@ import { roomSchema } from '../../shared/schemas/room'
 import { invite } from '../../server/services/team'
 import { caseStatusLabels, flagLabel, formatDateTime } from '../../shared/words'
 import { accountStory, caseAnswerWords } from '../../shared/words/people'
-import type { RunningServer } from '../../server/server'
 
-let server: RunningServer
-let browser: Browser
-beforeAll(async () => {
-  server = await startProduct()
-  browser = await launchBrowser()
-}, 120_000)
-afterAll(async () => {
-  await browser?.close()
-  await server?.close()
-})
+const app = useProduct({ timeout: 120_000 })
 
 describe('a case description is read as markdown, through the one shared renderer', () => {
   it('the listener and the advisor see bold text, never the asterisks, and typed HTML stays text', async () => {
@@ -34,10 +24,10 @@ describe('a case description is read as markdown, through the one shared rendere
     await updateCase(listener, c.id, { status: 'submitted', fromStatus: 'draft' })
 
     for (const [who, path] of [[listener, `/cases/${c.id}`], [advisor, `/desk/cases/${c.id}`]] as const) {
-      const context = await browser.newContext({ viewport: { width: 1280, height: 900 } })
-      const page = await signInAs(context, server.url, who.email, who.password)
+      const context = await app.browser.newContext({ viewport: { width: 1280, height: 900 } })
+      const page = await signInAs(context, app.server.url, who.email, who.password)
       await page.waitForURL((u) => !u.pathname.startsWith('/sign-in'))
-      await page.goto(`${server.url}${path}`, { waitUntil: 'networkidle' })
+      await page.goto(`${app.server.url}${path}`, { waitUntil: 'networkidle' })
       const box = page.getByTestId('case-description-text').first()
       await box.waitFor()
       expect(await box.locator('strong').first().textContent()).toBe('booms')
@@ -57,7 +47,7 @@ function watch(page: Page): string[] {
   page.on('console', (m) => m.type() === 'error' && seen.push(`console: ${m.text()}`))
   page.on('pageerror', (e) => seen.push(`pageerror: ${e.message}`))
   page.on('response', (r) => {
-    if (r.status() >= 400 && r.url().startsWith(server.url)) seen.push(`${r.status()} ${r.request().method()} ${new URL(r.url()).pathname}`)
+    if (r.status() >= 400 && r.url().startsWith(app.server.url)) seen.push(`${r.status()} ${r.request().method()} ${new URL(r.url()).pathname}`)
   })
   page.on('requestfailed', (r) => seen.push(`failed: ${r.url()}`))
   return seen
@@ -65,12 +55,12 @@ function watch(page: Page): string[] {
 
 describe('a signed-out visitor', () => {
   it('opens the sign-in and sign-up pages with no failing request and no console error', async () => {
-    const context = await browser.newContext({ viewport: { width: 1280, height: 900 } })
+    const context = await app.browser.newContext({ viewport: { width: 1280, height: 900 } })
     const page = await context.newPage()
     page.setDefaultTimeout(45_000)
     const seen = watch(page)
     for (const path of ['/', '/sign-in', '/sign-up']) {
-      await page.goto(`${server.url}${path}`, { waitUntil: 'networkidle' })
+      await page.goto(`${app.server.url}${path}`, { waitUntil: 'networkidle' })
       // on a loaded machine "network idle" can come between the session answer and the page's own chunks:
       // wait for the form itself, so the next visit does not cut a chunk's download short
       await page.getByTestId('signin-email').or(page.getByTestId('signup-email')).first().waitFor()
@@ -78,7 +68,7 @@ describe('a signed-out visitor', () => {
     }
     await page.getByTestId('signin-email').or(page.locator('input[type=email]')).first().waitFor()
     // moving between the two forms inside the app, as a visitor does
-    await page.goto(`${server.url}/sign-in`, { waitUntil: 'networkidle' })
+    await page.goto(`${app.server.url}/sign-in`, { waitUntil: 'networkidle' })
     await page.getByTestId('signin-email').waitFor()
     expect(seen).toEqual([])
     await context.close()
@@ -87,10 +77,10 @@ describe('a signed-out visitor', () => {
 
 /** A fresh browser context in `timezoneId`, signed in as `who`, on `path` of the product. */
 async function openAs(who: { email: string; password: string }, path: string, timezoneId?: string): Promise<{ page: Page; close: () => Promise<void> }> {
-  const context = await browser.newContext({ viewport: { width: 1440, height: 900 }, timezoneId })
-  const page = await signInAs(context, server.url, who.email, who.password)
+  const context = await app.browser.newContext({ viewport: { width: 1440, height: 900 }, timezoneId })
+  const page = await signInAs(context, app.server.url, who.email, who.password)
   await page.waitForURL((u) => !u.pathname.startsWith('/sign-in'))
-  await page.goto(`${server.url}${path}`, { waitUntil: 'networkidle' })
+  await page.goto(`${app.server.url}${path}`, { waitUntil: 'networkidle' })
   return { page, close: () => context.close() }
 }
 
@@ -168,16 +158,16 @@ describe('one source of words: the same flag and status read the same on every p
   it("an advisor's invitation page speaks of the desk, not the listener's room", async () => {
     const sup = await makeUser('supervisor', 'Ingeborg Valtonen')
     const { token } = await invite(sup, { email: `words-invite-${Date.now()}@example.test`, name: 'Tobiah Nakashima', role: 'advisor' })
-    const context = await browser.newContext({ viewport: { width: 1280, height: 900 } })
+    const context = await app.browser.newContext({ viewport: { width: 1280, height: 900 } })
     const page = await context.newPage()
     page.setDefaultTimeout(45_000)
-    await page.goto(`${server.url}/welcome/${token}`, { waitUntil: 'networkidle' })
+    await page.goto(`${app.server.url}/welcome/${token}`, { waitUntil: 'networkidle' })
     await page.getByTestId('set-password-password').waitFor()
     expect(await page.getByTestId('auth-story').getAttribute('data-reader')).toBe('staff')
     expect(await page.getByTestId('auth-story-headline').textContent()).toBe(accountStory.staff.headline)
     expect(await page.getByTestId('auth-story').textContent()).not.toContain(accountStory.listener.headline)
     // the sign-up page keeps the listener's story
-    await page.goto(`${server.url}/sign-up`, { waitUntil: 'networkidle' })
+    await page.goto(`${app.server.url}/sign-up`, { waitUntil: 'networkidle' })
     await page.getByTestId('signup-email').waitFor()
     expect(await page.getByTestId('auth-story-headline').textContent()).toBe(accountStory.listener.headline)
     await context.close()

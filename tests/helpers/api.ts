@@ -40,22 +40,31 @@ export interface Client {
   delete: (url: string) => request.Test
 }
 
-/** A cookie-keeping client with its CSRF token, optionally signed in as `user`. */
-export async function client(user?: { email: string; password: string }): Promise<Client> {
-  const agent = request.agent(testApp())
-  const { body } = await agent.get('/api/auth/csrf').expect(200)
+/** The Client methods over one cookie-keeping agent, each write carrying the CSRF token. */
+export function clientOver(agent: ReturnType<typeof request.agent>, csrf: string): Client {
   const c: Client = {
     agent,
-    csrf: body.token,
+    csrf,
     get: (url) => agent.get(url),
     post: (url, b) => agent.post(url).set('X-CSRF-Token', c.csrf).send(b as object),
     put: (url, b) => agent.put(url).set('X-CSRF-Token', c.csrf).send(b as object),
     patch: (url, b) => agent.patch(url).set('X-CSRF-Token', c.csrf).send(b as object),
     delete: (url) => agent.delete(url).set('X-CSRF-Token', c.csrf),
   }
+  return c
+}
+
+/** A cookie-keeping client of `app` (an Express app or a base URL) with its CSRF token, optionally signed in as `user`. */
+export async function clientOf(app: Parameters<typeof request.agent>[0], user?: { email: string; password: string }): Promise<Client> {
+  const agent = request.agent(app)
+  const { body } = await agent.get('/api/auth/csrf').expect(200)
+  const c = clientOver(agent, body.token)
   if (user) await c.post('/api/auth/login', { email: user.email, password: user.password }).expect(200)
   return c
 }
+
+/** A cookie-keeping client with its CSRF token, optionally signed in as `user`. */
+export const client = (user?: { email: string; password: string }): Promise<Client> => clientOf(testApp(), user)
 
 export async function signedIn(role: Role) {
   const user = await makeUser(role)

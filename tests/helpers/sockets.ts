@@ -1,5 +1,20 @@
+import { afterAll, beforeAll } from 'vitest'
 import { io, type Socket } from 'socket.io-client'
 import request from 'supertest'
+import { startServer, type RunningServer } from '../../server/server'
+import { clientOver, type Client } from './api'
+
+/** This file's own server (API and sockets, no client files, no background jobs) on a free port, for its tests. */
+export function useServer(): { server: RunningServer } {
+  const running = {} as { server: RunningServer }
+  beforeAll(async () => {
+    running.server = await startServer({ port: 0, clientDir: false, background: false })
+  })
+  afterAll(async () => {
+    await running.server?.close()
+  })
+  return running
+}
 
 /** Signs in over HTTP against a running server and returns the session cookie and CSRF token. */
 export async function sessionFor(baseUrl: string, email: string, password: string): Promise<{ cookie: string; csrf: string; agent: ReturnType<typeof request.agent> }> {
@@ -10,6 +25,12 @@ export async function sessionFor(baseUrl: string, email: string, password: strin
   return { cookie, csrf: body.token, agent }
 }
 
+/** A signed-in Client against a running server, with the session cookie for its sockets. */
+export async function httpClient(baseUrl: string, email: string, password: string): Promise<Client & { cookie: string }> {
+  const { agent, csrf, cookie } = await sessionFor(baseUrl, email, password)
+  return { ...clientOver(agent, csrf), cookie }
+}
+
 export async function connectSocket(baseUrl: string, cookie?: string): Promise<Socket> {
   const s = io(baseUrl, { transports: ['websocket'], extraHeaders: cookie ? { Cookie: cookie } : {}, reconnection: false, forceNew: true })
   await new Promise<void>((resolve, reject) => {
@@ -17,6 +38,14 @@ export async function connectSocket(baseUrl: string, cookie?: string): Promise<S
     s.once('connect_error', (e) => reject(e))
   })
   return s
+}
+
+/** One socket per session cookie, connected in that order, then each joined to the case's room. */
+export async function joinedSockets(baseUrl: string, caseId: string, ...cookies: string[]): Promise<Socket[]> {
+  const sockets: Socket[] = []
+  for (const cookie of cookies) sockets.push(await connectSocket(baseUrl, cookie))
+  for (const s of sockets) await emitAck(s, 'case.join', { caseId })
+  return sockets
 }
 
 export function nextEvent<T = unknown>(s: Socket, name: string, match: (p: T) => boolean = () => true, timeoutMs = 10_000): Promise<T> {

@@ -13,6 +13,7 @@ export class ReplySnippetModel extends Model<InferAttributes<ReplySnippetModel>,
   declare createdBy: ForeignKey<UserModel['id']> | null
   declare createdAt: CreationOptional<Date>
   declare updatedAt: CreationOptional<Date>
+  declare author?: NonAttribute<UserModel | null>
 }
 
 export class SavedFilterModel extends Model<InferAttributes<SavedFilterModel>, InferCreationAttributes<SavedFilterModel>> {

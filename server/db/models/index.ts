@@ -14,12 +14,13 @@ import { TreatmentPlanModel, initPlans } from './plan'
 import { EmailOutboxModel, DevMailboxModel, InboundEmailLogModel, initMail } from './mail'
 import { ReplySnippetModel, SavedFilterModel, DeskSettingsModel, initDesk } from './desk'
 import { TeamInvitationModel, AuditLogModel, PasswordResetTokenModel, SessionModel, initTeam } from './team'
+import { RateLimitHitModel, initRateLimit } from './rate-limit'
 import { sharedWithListener, type Audience } from '../../data/visibility'
 
 export {
   UserModel, RoomModel, RoomRevisionModel, CaseModel, CaseEventModel, CaseRatingModel, TriageSnapshotModel, MessageModel, FileModel,
   TreatmentPlanModel, EmailOutboxModel, DevMailboxModel, InboundEmailLogModel, ReplySnippetModel, SavedFilterModel, DeskSettingsModel,
-  TeamInvitationModel, AuditLogModel, PasswordResetTokenModel, SessionModel,
+  TeamInvitationModel, AuditLogModel, PasswordResetTokenModel, SessionModel, RateLimitHitModel,
 }
 
 // Built on first use: user.ts imports this module back (for `userModel()`), so the classes may not exist yet at load time.
@@ -28,6 +29,7 @@ const build = () => ({
   TriageSnapshot: TriageSnapshotModel, Message: MessageModel, File: FileModel, TreatmentPlan: TreatmentPlanModel,
   EmailOutbox: EmailOutboxModel, DevMailbox: DevMailboxModel, InboundEmailLog: InboundEmailLogModel, ReplySnippet: ReplySnippetModel,
   SavedFilter: SavedFilterModel, DeskSettings: DeskSettingsModel, TeamInvitation: TeamInvitationModel, AuditLog: AuditLogModel, PasswordResetToken: PasswordResetTokenModel, Session: SessionModel,
+  RateLimitHit: RateLimitHitModel,
 })
 export type Models = ReturnType<typeof build>
 let all: Models
@@ -48,6 +50,7 @@ export function models(): Models {
     initMail(sequelize)
     initDesk(sequelize)
     initTeam(sequelize)
+    initRateLimit(sequelize)
     associate()
     addScopes()
     boundTo = sequelize

@@ -28,6 +28,7 @@ export class AuditLogModel extends Model<InferAttributes<AuditLogModel>, InferCr
   declare details: CreationOptional<Record<string, unknown>>
   declare createdAt: CreationOptional<Date>
   declare actor?: NonAttribute<UserModel | null>
+  declare targetUser?: NonAttribute<UserModel | null>
 }
 
 /** A one-time password-reset link (migration 0051); only a SHA-256 of the token is kept. */

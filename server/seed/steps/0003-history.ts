@@ -1,12 +1,14 @@
 import { randomUUID } from 'node:crypto'
-import { QueryTypes } from 'sequelize'
+import { Op } from 'sequelize'
 import { db } from '../../db/sequelize'
+import { models } from '../../db/models'
 import { findUserByEmail } from '../../data/users'
 import { hashPassword } from '../../services/auth'
 import { analyseRoom, computeAndStoreTriage, triageScore } from '../../services/triage'
 import { roomSchema, type Room } from '../../../shared/schemas/room'
 import { DEMO_PASSWORD } from '../people'
 import { demoRooms } from '../rooms'
+import { mulberry32 } from '../../../shared/prng'
 
 /**
  * Twelve weeks of invented history for the supervisor's dashboard: a few hundred cases with the
@@ -21,16 +23,7 @@ export async function seed(): Promise<void> {
 const H = 3_600_000
 
 /** Small deterministic generator (mulberry32), so every demo database gets the same story. */
-export function prng(seed: number) {
-  let a = seed >>> 0
-  return () => {
-    a = (a + 0x6d2b79f5) >>> 0
-    let t = a
-    t = Math.imul(t ^ (t >>> 15), t | 1)
-    t ^= t + Math.imul(t ^ (t >>> 7), t | 61)
-    return ((t ^ (t >>> 14)) >>> 0) / 4294967296
-  }
-}
+export const prng = mulberry32
 
 const firstNames = ['Ada', 'Bastian', 'Cleo', 'Dario', 'Elin', 'Farid', 'Greta', 'Hugo', 'Ilse', 'Jaro', 'Kaia', 'Lorcan', 'Mira', 'Nils', 'Orla', 'Pavel', 'Quinn', 'Rosa', 'Soren', 'Tilde', 'Umar', 'Vera', 'Wim', 'Xenia', 'Yusuf', 'Zora']
 const lastNames = ['Ambrose', 'Brightwater', 'Castellane', 'Dunmore', 'Eskildsen', 'Ferreira-Holm', 'Galloway', 'Hartigan', 'Iversen', 'Jablonski', 'Kessler', 'Lindqvist-Moe', 'Marchetti', 'Nakagawa', 'Oduya', 'Petrakis', 'Quist', 'Rautio', 'Szabo', 'Thorne']
@@ -108,21 +101,11 @@ export async function insertHistory(o: HistoryOptions): Promise<{ caseIds: strin
     roomId: randomUUID(),
     roomName: `${pick(roomNames)} of ${firstNames[i % firstNames.length]}`,
   }))
-  await sql.query(
-    `INSERT INTO users (id, email, name, role, password_hash, created_at, updated_at)
-     SELECT x.id, x.email, x.name, 'listener', NULL, $2::timestamptz, $2::timestamptz FROM jsonb_to_recordset($1::jsonb) AS x(id uuid, email text, name text)`,
-    { bind: [JSON.stringify(listeners), created] },
-  )
-  await sql.query(
-    `INSERT INTO rooms (id, owner_id, name, created_at, updated_at)
-     SELECT x.id, x.owner_id, x.name, $2::timestamptz, $2::timestamptz FROM jsonb_to_recordset($1::jsonb) AS x(id uuid, owner_id uuid, name text)`,
-    { bind: [JSON.stringify(listeners.map((l) => ({ id: l.roomId, owner_id: l.id, name: l.roomName }))), created] },
-  )
-  await sql.query(
-    `INSERT INTO room_revisions (room_id, revision, body, created_by, created_at)
-     SELECT x.room_id, 1, x.body, x.owner_id, $2::timestamptz FROM jsonb_to_recordset($1::jsonb) AS x(room_id uuid, owner_id uuid, body jsonb)`,
-    { bind: [JSON.stringify(listeners.map((l) => ({ room_id: l.roomId, owner_id: l.id, body: { ...templates[l.template], name: l.roomName } }))), created] },
-  )
+  const { User, Room, RoomRevision, Case } = models()
+  const at = new Date(created)
+  await User.bulkCreate(listeners.map((l) => ({ id: l.id, email: l.email, name: l.name, role: 'listener' as const, passwordHash: null, createdAt: at, updatedAt: at })))
+  await Room.bulkCreate(listeners.map((l) => ({ id: l.roomId, ownerId: l.id, name: l.roomName, createdAt: at, updatedAt: at })))
+  await RoomRevision.bulkCreate(listeners.map((l) => ({ roomId: l.roomId, revision: 1, body: { ...templates[l.template], name: l.roomName }, createdBy: l.id, createdAt: at })))
 
   const cases: Record<string, unknown>[] = []
   const events: Ev[] = []
@@ -229,6 +212,7 @@ export async function insertHistory(o: HistoryOptions): Promise<{ caseIds: strin
 
   await sql.transaction(async (tx) => {
     const chunked = async (rows: Record<string, unknown>[] | Ev[], q: string) => {
+      // raw SQL: set-based bulk load of up to 100 000 rows (jsonb_to_recordset, 2 000 rows a statement), one round trip per chunk
       for (let k = 0; k < rows.length; k += 2000) await sql.query(q, { bind: [JSON.stringify(rows.slice(k, k + 2000))], transaction: tx })
     }
     await chunked(cases, `
@@ -254,9 +238,10 @@ export async function insertHistory(o: HistoryOptions): Promise<{ caseIds: strin
       SELECT x.case_id, x.listener_id, x.score, x.comment, x.created_at FROM jsonb_to_recordset($1::jsonb) AS x(case_id uuid, listener_id uuid, score smallint, comment text, created_at timestamptz)`)
   })
   const gone = team.advisors.filter((a) => !a.active).map((a) => a.id)
-  await sql.query(`UPDATE users SET active = false WHERE id = ANY($1::uuid[])`, { bind: [gone] })
-  await sql.query(`UPDATE cases SET assignee_id = NULL WHERE assignee_id = ANY($1::uuid[]) AND status <> 'closed'`, { bind: [gone] })
+  await User.update({ active: false }, { where: { id: gone }, silent: true })
+  await Case.update({ assigneeId: null }, { where: { assigneeId: gone, status: { [Op.ne]: 'closed' } } })
   // Fresh statistics after a bulk load, so the planner does not plan the metrics for empty tables.
+  // raw SQL: ANALYZE is maintenance, not a query of the model
   await sql.query('ANALYZE users, rooms, cases, case_events, messages, case_ratings')
   if (o.triageOpen) for (const id of openIds) await computeAndStoreTriage(id)
   return { caseIds: cases.map((c) => c.id as string), listenerIds: listeners.map((l) => l.id) }
@@ -274,10 +259,7 @@ export async function insertHistory(o: HistoryOptions): Promise<{ caseIds: strin
       [`${o.tag}-bram.whitlock@roomwright.test`, 'Bram Whitlock', false],
     ] as const) {
       const existing = await findUserByEmail(email)
-      const id = existing?.id ?? (await sql.query<{ id: string }>(
-        `INSERT INTO users (email, name, role, password_hash, created_at) VALUES ($1, $2, 'advisor', $3, $4) RETURNING id`,
-        { bind: [email, name, hash, created], type: QueryTypes.SELECT },
-      ))[0].id
+      const id = existing?.id ?? (await models().User.create({ email, name, role: 'advisor', passwordHash: hash, createdAt: new Date(created) })).id
       advisors.push({ id, active })
     }
     return { advisors }

@@ -1,6 +1,6 @@
 import { randomUUID } from 'node:crypto'
-import { QueryTypes } from 'sequelize'
-import { db } from '../../db/sequelize'
+import { Op } from 'sequelize'
+import { models } from '../../db/models'
 import { findUserByEmail, toPublicUser } from '../../data/users'
 import { findRoom } from '../../data/rooms'
 import { storage } from '../../storage'
@@ -13,12 +13,11 @@ import { syntheticImpulseResponse } from '../synthetic-measurement'
  * as a listener's files.
  */
 export async function seed(): Promise<void> {
-  const cases = await db().query<{ id: string; room_id: string; room_revision: number; email: string; title: string }>(
-    `SELECT c.id, c.room_id, c.room_revision, u.email, c.title FROM cases c JOIN users u ON u.id = c.listener_id
-      WHERE u.email IN ('listener@roomwright.test', 'jonas.mbeki@roomwright.test', 'felix.aduya@roomwright.test') AND c.status <> 'draft'
-      ORDER BY c.created_at`,
-    { type: QueryTypes.SELECT },
-  )
+  const cases = (await models().Case.findAll({
+    attributes: ['id', 'roomId', 'roomRevision', 'title', 'createdAt'], where: { status: { [Op.ne]: 'draft' } },
+    include: [{ association: 'listener', attributes: ['email'], where: { email: ['listener@roomwright.test', 'jonas.mbeki@roomwright.test', 'felix.aduya@roomwright.test'] }, required: true }],
+    order: [['createdAt', 'ASC']],
+  })).map((c) => ({ id: c.id, room_id: c.roomId, room_revision: c.roomRevision, email: c.listener!.email, title: c.title }))
   for (const c of cases) {
     const owner = await findUserByEmail(c.email)
     const room = await findRoom(c.room_id, c.room_revision)

@@ -1,5 +1,6 @@
-import { QueryTypes } from 'sequelize'
+import { Op } from 'sequelize'
 import { db } from '../../db/sequelize'
+import { models } from '../../db/models'
 import { analyseRoom, computeAndStoreTriage, triageScore } from '../../services/triage'
 import { predictPlan } from '../../../shared/plan'
 import { ENGINE_VERSION } from '../../../shared/acoustics'
@@ -44,12 +45,13 @@ export async function seed(): Promise<void> {
     for (let v = 0; v < VARIANTS_PER_STORY; v++) templates.push(variant(story, base, v === 0 ? 0 : 1, rnd))
   }
 
-  const rooms = await sql.query<{ id: string; owner_id: string; name: string }>(
-    `SELECT r.id, r.owner_id, r.name FROM rooms r JOIN users u ON u.id = r.owner_id
-      WHERE u.email LIKE 'history-listener-%' AND r.current_revision = 1
-      ORDER BY length(u.email), u.email`,
-    { type: QueryTypes.SELECT },
-  )
+  const { Room, Case, Message, CaseEvent } = models()
+  const owned = await Room.findAll({
+    attributes: ['id', 'ownerId', 'name'], where: { currentRevision: 1 },
+    include: [{ association: 'owner', attributes: ['email'], where: { email: { [Op.like]: 'history-listener-%' } }, required: true }],
+  })
+  const emailOf = (r: (typeof owned)[number]) => r.owner!.email
+  const rooms = owned.sort((a, b) => emailOf(a).length - emailOf(b).length || (emailOf(a) < emailOf(b) ? -1 : emailOf(a) > emailOf(b) ? 1 : 0))
   const roomTemplate = new Map<string, Template>()
   const roomRows: { id: string; name: string; body: Room }[] = []
   rooms.forEach((r, i) => {
@@ -60,25 +62,28 @@ export async function seed(): Promise<void> {
     roomRows.push({ id: r.id, name, body: { ...tpl.room, name } })
   })
 
-  const cases = await sql.query<{ id: string; room_id: string; listener_id: string; assignee_id: string | null; status: string; submitted_at: Date; closed_at: Date | null; rated: boolean; has_plan: boolean }>(
-    `SELECT c.id, c.room_id, c.listener_id, c.assignee_id, c.status, c.submitted_at, c.closed_at,
-            EXISTS (SELECT 1 FROM case_ratings r WHERE r.case_id = c.id) AS rated,
-            EXISTS (SELECT 1 FROM treatment_plans p WHERE p.case_id = c.id) AS has_plan
-       FROM cases c WHERE c.room_id = ANY($1::uuid[]) AND c.description = 'Invented demo history case.' ORDER BY c.created_at`,
-    { bind: [rooms.map((r) => r.id)], type: QueryTypes.SELECT },
-  )
+  const cases = (await Case.findAll({
+    attributes: ['id', 'roomId', 'listenerId', 'assigneeId', 'status', 'submittedAt', 'closedAt', 'createdAt'],
+    where: { roomId: rooms.map((r) => r.id), description: 'Invented demo history case.' },
+    include: [{ association: 'rating', attributes: ['caseId'], required: false }, { association: 'plans', attributes: ['id'], required: false }],
+    order: [['createdAt', 'ASC']],
+  })).map((c) => ({
+    id: c.id, room_id: c.roomId, listener_id: c.listenerId, assignee_id: c.assigneeId, status: c.status,
+    submitted_at: c.submittedAt!, closed_at: c.closedAt, rated: !!c.rating, has_plan: !!c.plans?.length,
+  }))
   const ids = cases.map((c) => c.id)
-  const messages = await sql.query<{ id: string; case_id: string; body: string; staff: boolean }>(
-    `SELECT m.id, m.case_id, m.body, u.role <> 'listener' AS staff FROM messages m JOIN users u ON u.id = m.author_id
-      WHERE m.case_id = ANY($1::uuid[]) ORDER BY m.case_id, m.created_at, m.id`,
-    { bind: [ids], type: QueryTypes.SELECT },
-  )
-  const planSent = await sql.query<{ id: string; case_id: string; actor_id: string | null; created_at: Date }>(
-    `SELECT DISTINCT ON (case_id) id, case_id, actor_id, created_at FROM case_events
-      WHERE case_id = ANY($1::uuid[]) AND kind = 'status' AND to_status = 'plan_sent' ORDER BY case_id, created_at DESC`,
-    { bind: [ids], type: QueryTypes.SELECT },
-  )
-  const planEvent = new Map(planSent.map((e) => [e.case_id, e]))
+  const messages = (await Message.findAll({
+    attributes: ['id', 'caseId', 'body', 'createdAt'], where: { caseId: ids },
+    include: [{ association: 'author', attributes: ['role'], required: true }],
+    order: [['caseId', 'ASC'], ['createdAt', 'ASC'], ['id', 'ASC']],
+  })).map((m) => ({ id: m.id, case_id: m.caseId, body: m.body, staff: m.author!.role !== 'listener' }))
+  // the latest move to plan_sent of each case (the first row per case, newest first)
+  const planSent = (await CaseEvent.findAll({
+    attributes: ['id', 'caseId', 'actorId', 'createdAt'], where: { caseId: ids, kind: 'status', toStatus: 'plan_sent' },
+    order: [['caseId', 'ASC'], ['createdAt', 'DESC']],
+  })).map((e) => ({ id: e.id, case_id: e.caseId, actor_id: e.actorId, created_at: e.createdAt }))
+  const planEvent = new Map<string, (typeof planSent)[number]>()
+  for (const e of planSent) if (!planEvent.has(e.case_id)) planEvent.set(e.case_id, e)
   const byCase = new Map<string, typeof messages>()
   for (const m of messages) byCase.set(m.case_id, [...(byCase.get(m.case_id) ?? []), m])
 
@@ -138,6 +143,7 @@ export async function seed(): Promise<void> {
   }
 
   await sql.transaction(async (transaction) => {
+    // raw SQL: set-based updates and inserts over every history row at once (jsonb_to_recordset), one statement per table
     const run = (q: string, rows: object[]) => (rows.length ? sql.query(q, { bind: [JSON.stringify(rows)], transaction }) : Promise.resolve())
     await run(`UPDATE rooms r SET name = x.name FROM jsonb_to_recordset($1::jsonb) AS x(id uuid, name text) WHERE r.id = x.id`, roomRows)
     await run(`UPDATE room_revisions v SET body = x.body FROM jsonb_to_recordset($1::jsonb) AS x(id uuid, body jsonb) WHERE v.room_id = x.id AND v.revision = 1`, roomRows)
@@ -159,10 +165,12 @@ export async function seed(): Promise<void> {
       SELECT x.case_id, x.actor_id, x.kind, x.data, x.created_at FROM jsonb_to_recordset($1::jsonb) AS x(case_id uuid, actor_id uuid, kind text, data jsonb, created_at timestamptz)
        ORDER BY x.created_at`, eventRows)
     if (planEventIds.length) {
+      // raw SQL: merging a key into a jsonb column (||) has no ORM form
       await sql.query(`UPDATE case_events SET data = data || '{"planVersion": 1}'::jsonb WHERE id = ANY($1::bigint[])`, { bind: [planEventIds], transaction })
     }
   })
   for (const c of cases) if (c.status !== 'closed') await computeAndStoreTriage(c.id)
+  // raw SQL: ANALYZE is maintenance, not a query of the model
   await sql.query('ANALYZE rooms, room_revisions, cases, messages, case_events, case_ratings, treatment_plans')
 }
 

@@ -1,5 +1,5 @@
-import { QueryTypes } from 'sequelize'
-import { db } from '../../db/sequelize'
+import { Op, col, fn, where } from 'sequelize'
+import { models } from '../../db/models'
 import { findUserByEmail, toPublicUser } from '../../data/users'
 import { createSnippet } from '../../services/snippets'
 import { snippetSchema } from '../../../shared/schemas/snippet'
@@ -11,7 +11,7 @@ export async function seed(): Promise<void> {
   if (!u) return
   const author = toPublicUser(u)
   for (const s of demoSnippets) {
-    const taken = await db().query(`SELECT 1 FROM reply_snippets WHERE scope = 'team' AND lower(title) = lower($1)`, { bind: [s.title], type: QueryTypes.SELECT })
-    if (!taken.length) await createSnippet(author, snippetSchema.parse({ ...s, scope: 'team' }))
+    const taken = await models().ReplySnippet.count({ where: { [Op.and]: [{ scope: 'team' }, where(fn('lower', col('title')), Op.eq, fn('lower', s.title))] } })
+    if (!taken) await createSnippet(author, snippetSchema.parse({ ...s, scope: 'team' }))
   }
 }

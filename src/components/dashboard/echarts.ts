@@ -1,10 +1,2 @@
-import { BarChart, LineChart } from 'echarts/charts'
-import { GridComponent, LegendComponent, MarkLineComponent, TooltipComponent } from 'echarts/components'
-import { use } from 'echarts/core'
-import { CanvasRenderer } from 'echarts/renderers'
-import VChart from 'vue-echarts'
-
-// Only the parts of ECharts the dashboard charts use.
-use([CanvasRenderer, BarChart, LineChart, GridComponent, TooltipComponent, LegendComponent, MarkLineComponent])
-
-export { VChart }
+// The dashboard charts draw through the one lazily loaded ECharts set-up (src/plugins/echarts.ts).
+export { VChart } from '../../plugins/chart'

@@ -5,51 +5,37 @@ import { extractReplyToken, htmlToReplyText, parseAddress, stripQuotedReply } fr
 const TOKEN = 'q7VfT2mW9xLc4Rb8Zk1NpA'
 
 describe('stripQuotedReply — realistic replies (client layouts as commonly seen, from memory)', () => {
-  it('Gmail: cuts at "On … wrote:" and the quoted lines under it', () => {
-    const mail = [
-      'Thanks, the sofa is 80 cm from the back wall.',
-      '',
-      'On Tue, 4 Jun 2024 at 09:12, Roomwright <desk@roomwright.test> wrote:',
-      '',
-      '> Hello Ana,',
-      '> Odile Brenner answered on your case “Boom at 43 Hz”:',
-    ].join('\n')
-    expect(stripQuotedReply(mail)).toBe('Thanks, the sofa is 80 cm from the back wall.')
-  })
-  it('Gmail: the "On … wrote:" header wrapped onto two lines', () => {
-    const mail = [
-      'Yes, both speakers are 1.1 m from the side walls.',
-      '',
-      'On Tue, 4 Jun 2024 at 09:12, Roomwright <',
-      `reply+${TOKEN}@reply.roomwright.test> wrote:`,
-      '> quoted',
-    ].join('\n')
-    expect(stripQuotedReply(mail)).toBe('Yes, both speakers are 1.1 m from the side walls.')
-  })
-  it('Apple Mail on a phone: drops the "Sent from my iPhone" footer and the quote', () => {
-    const mail = ['The ceiling is 2.4 m high.', '', 'Sent from my iPhone', '', '> On 4 Jun 2024, at 09:12, Roomwright <desk@roomwright.test> wrote:', '> Hello'].join('\n')
-    expect(stripQuotedReply(mail)).toBe('The ceiling is 2.4 m high.')
-  })
-  it('Outlook desktop: cuts at the rule and From:/Sent: block, even without ">" quoting', () => {
-    const mail = [
-      'Here are the photos you asked for.',
-      '',
-      'Best,',
-      'Ana',
-      '',
-      '________________________________',
-      'From: Roomwright <desk@roomwright.test>',
-      'Sent: Tuesday, June 4, 2024 9:12 AM',
-      'To: Ana Ruiz <ana@example.test>',
-      'Subject: A question about “Boom at 43 Hz”',
-      '',
-      'Hello Ana,',
-    ].join('\r\n')
-    expect(stripQuotedReply(mail)).toBe('Here are the photos you asked for.\n\nBest,\nAna')
-  })
-  it('Outlook: a From:/Sent: block without the rule', () => {
-    const mail = ['Measured again tonight.', '', 'From: Roomwright <desk@roomwright.test>', 'Sent: 04 June 2024 09:12', 'Subject: x'].join('\n')
-    expect(stripQuotedReply(mail)).toBe('Measured again tonight.')
+  // Each reply as a client lays it out (lines, and the line ending it uses) and what the listener wrote.
+  const layouts: { client: string; lines: string[]; eol?: string; reply: string }[] = [
+    {
+      client: 'Gmail: cuts at "On … wrote:" and the quoted lines under it',
+      lines: ['Thanks, the sofa is 80 cm from the back wall.', '', 'On Tue, 4 Jun 2024 at 09:12, Roomwright <desk@roomwright.test> wrote:', '', '> Hello Ana,', '> Odile Brenner answered on your case “Boom at 43 Hz”:'],
+      reply: 'Thanks, the sofa is 80 cm from the back wall.',
+    },
+    {
+      client: 'Gmail: the "On … wrote:" header wrapped onto two lines',
+      lines: ['Yes, both speakers are 1.1 m from the side walls.', '', 'On Tue, 4 Jun 2024 at 09:12, Roomwright <', `reply+${TOKEN}@reply.roomwright.test> wrote:`, '> quoted'],
+      reply: 'Yes, both speakers are 1.1 m from the side walls.',
+    },
+    {
+      client: 'Apple Mail on a phone: drops the "Sent from my iPhone" footer and the quote',
+      lines: ['The ceiling is 2.4 m high.', '', 'Sent from my iPhone', '', '> On 4 Jun 2024, at 09:12, Roomwright <desk@roomwright.test> wrote:', '> Hello'],
+      reply: 'The ceiling is 2.4 m high.',
+    },
+    {
+      client: 'Outlook desktop: cuts at the rule and From:/Sent: block, even without ">" quoting',
+      lines: ['Here are the photos you asked for.', '', 'Best,', 'Ana', '', '________________________________', 'From: Roomwright <desk@roomwright.test>', 'Sent: Tuesday, June 4, 2024 9:12 AM', 'To: Ana Ruiz <ana@example.test>', 'Subject: A question about “Boom at 43 Hz”', '', 'Hello Ana,'],
+      eol: '\r\n',
+      reply: 'Here are the photos you asked for.\n\nBest,\nAna',
+    },
+    {
+      client: 'Outlook: a From:/Sent: block without the rule',
+      lines: ['Measured again tonight.', '', 'From: Roomwright <desk@roomwright.test>', 'Sent: 04 June 2024 09:12', 'Subject: x'],
+      reply: 'Measured again tonight.',
+    },
+  ]
+  it.each(layouts)('$client', ({ lines, eol, reply }) => {
+    expect(stripQuotedReply(lines.join(eol ?? '\n'))).toBe(reply)
   })
   it('older Outlook: "-----Original Message-----"', () => {
     expect(stripQuotedReply('Done.\n\n-----Original Message-----\nFrom: Roomwright\nHello')).toBe('Done.')

@@ -1,22 +1,14 @@
 /** Synthetic impulse responses with known answers, for the signal tests and the bench. */
 import FFT from 'fft.js'
 import * as wavefileModule from 'wavefile'
+import { mulberry32 } from '../../../shared/prng'
 
 const ns = wavefileModule as unknown as { WaveFile?: new () => any; default?: { WaveFile: new () => any } }
 /** wavefile's class under either module shape (CommonJS in Node, ES module in bundlers). */
 export const WaveFile = (ns.WaveFile ?? ns.default?.WaveFile) as new () => any
 
 /** Seeded uniform [0, 1) generator (mulberry32), so every test is repeatable. */
-export function rng(seed: number): () => number {
-  let a = seed >>> 0
-  return () => {
-    a = (a + 0x6d2b79f5) >>> 0
-    let t = a
-    t = Math.imul(t ^ (t >>> 15), t | 1)
-    t ^= t + Math.imul(t ^ (t >>> 7), t | 61)
-    return ((t ^ (t >>> 14)) >>> 0) / 4294967296
-  }
-}
+export const rng: (seed: number) => () => number = mulberry32
 
 /** Energy envelope e^(−A·t/T), A = 6·ln 10, as an amplitude: 60 dB of energy decay in T seconds. */
 export const amplitudeEnvelope = (tS: number, rt: number) => Math.exp((-3 * Math.LN10 * tS) / rt)

@@ -2,6 +2,7 @@ import { createHash } from 'node:crypto'
 import { PassThrough, Readable } from 'node:stream'
 import { describe, expect, it } from 'vitest'
 import { StorageKeyError, StorageNotFoundError, type Storage } from '../../../server/storage'
+import { noise as xorshiftNoise } from '../uploads/make-files'
 
 const sha = (b: Buffer) => createHash('sha256').update(b).digest('hex')
 
@@ -12,17 +13,7 @@ async function collect(stream: Readable): Promise<Buffer> {
 }
 
 /** Pseudo-random bytes (xorshift32) so a mis-ordered or dropped chunk changes the hash. */
-export function noise(bytes: number, seed = 0x9e3779b9): Buffer {
-  const out = Buffer.alloc(bytes)
-  let x = seed >>> 0
-  for (let i = 0; i < bytes; i++) {
-    x ^= x << 13; x >>>= 0
-    x ^= x >>> 17
-    x ^= x << 5; x >>>= 0
-    out[i] = x & 0xff
-  }
-  return out
-}
+export const noise = (bytes: number, seed = 0x9e3779b9): Buffer => xorshiftNoise(bytes, seed)
 
 function chunked(buf: Buffer, size: number): Readable {
   const parts: Buffer[] = []

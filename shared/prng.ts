@@ -1,0 +1,14 @@
+/**
+ * Small deterministic uniform [0, 1) generator, Tommy Ettinger's mulberry32 (public domain), so the demo
+ * seed and the tests give the same numbers every run.
+ */
+export function mulberry32(seed: number): () => number {
+  let a = seed >>> 0
+  return () => {
+    a = (a + 0x6d2b79f5) >>> 0
+    let t = a
+    t = Math.imul(t ^ (t >>> 15), t | 1)
+    t ^= t + Math.imul(t ^ (t >>> 7), t | 61)
+    return ((t ^ (t >>> 14)) >>> 0) / 4294967296
+  }
+}

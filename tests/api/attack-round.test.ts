@@ -1,0 +1,126 @@
+import { afterAll, describe, expect, it } from 'vitest'
+import request from 'supertest'
+import { performance } from 'node:perf_hooks'
+import { QueryTypes } from 'sequelize'
+
+// Findings of our own break-in round (SECURITY.md "Findings of our own review"). Small budgets so the
+// limit tests stay short; TRUST_PROXY lets each test speak from its own client address.
+process.env.LOGIN_RATE_LIMIT = '4'
+process.env.TRUST_PROXY = 'true'
+const SECRET = 'attack-round-inbound-secret-0123456789'
+process.env.INBOUND_EMAIL_SECRET = SECRET
+const { client, closeTestApp, makeUser, signedIn, testApp, uniqueEmail } = await import('../helpers/api')
+const { openCase } = await import('../helpers/cases')
+const { setConfigForTests, loadConfig, config } = await import('../../server/config')
+setConfigForTests(loadConfig())
+const { db } = await import('../../server/db/sequelize')
+const { INBOUND_SECRET_HEADER } = await import('../../server/routes/mail')
+const { bcryptRounds, registerListener } = await import('../../server/services/auth')
+
+afterAll(closeTestApp)
+
+const sidOf = (res: request.Response) => (res.headers['set-cookie'] as unknown as string[] | undefined)?.find((c) => c.startsWith('rw.sid='))?.split(';')[0]
+
+describe('session fixation: a password change renews the session id (OWASP session management)', () => {
+  it('after POST /api/auth/password the old cookie no longer signs anyone in; the new one does', async () => {
+    const u = await makeUser('listener')
+    const agent = request.agent(testApp())
+    const csrf = (await agent.get('/api/auth/csrf').expect(200)).body.token
+    const before = sidOf(await agent.post('/api/auth/login').set('X-CSRF-Token', csrf).send({ email: u.email, password: u.password }).expect(200))
+    expect(before).toBeDefined()
+    const changed = await agent.post('/api/auth/password').set('X-CSRF-Token', csrf).send({ currentPassword: u.password, newPassword: 'quartz-meadow-lantern-58' }).expect(200)
+    const after = sidOf(changed)
+    expect(after).toBeDefined()
+    expect(after).not.toBe(before)
+    await request(testApp()).get('/api/auth/me').set('Cookie', before!).expect(401)
+    expect((await request(testApp()).get('/api/auth/me').set('Cookie', after!).expect(200)).body.id).toBe(u.id)
+    // the page goes on working with the CSRF token it has
+    await agent.patch('/api/auth/preferences').set('X-CSRF-Token', csrf).send({ units: 'imperial' }).expect(200)
+  })
+})
+
+describe('sign-up does not tell by its timing whether an address has an account', () => {
+  // Same method as sign-in-timing.test.ts: the ratio of two medians at the production cost factor, not a
+  // wall-clock bound. Before the fix a taken address answered without hashing (ratio far above 10).
+  it('with the production cost factor, a taken address and a free one take alike (medians within a factor 1.6)', async () => {
+    const before = process.env.NODE_ENV
+    process.env.NODE_ENV = 'production'
+    try {
+      expect(bcryptRounds()).toBe(12)
+      const taken = await makeUser('listener')
+      const password = 'harbour-velvet-cinder-72'
+      const time = async (email: string, ok: boolean) => {
+        const t = performance.now()
+        await registerListener({ email, name: 'Timing Listener', password }).then(() => expect(ok).toBe(true), (e) => expect((e as { code?: string }).code).toBe('email_taken'))
+        return performance.now() - t
+      }
+      await time(uniqueEmail('warm'), true)
+      const takenMs: number[] = []
+      const freeMs: number[] = []
+      for (let i = 0; i < 5; i++) {
+        takenMs.push(await time(taken.email, false))
+        freeMs.push(await time(uniqueEmail('free'), true))
+      }
+      const median = (xs: number[]) => [...xs].sort((a, b) => a - b)[Math.floor(xs.length / 2)]
+      const ratio = median(freeMs) / median(takenMs)
+      expect(ratio, `medians ${median(freeMs).toFixed(0)} ms (free) vs ${median(takenMs).toFixed(0)} ms (taken)`).toBeLessThan(1.6)
+      expect(ratio).toBeGreaterThan(1 / 1.6)
+    } finally {
+      process.env.NODE_ENV = before
+    }
+  }, 120_000)
+})
+
+describe('the inbound reply webhook', () => {
+  const post = (body: object, secret: string, from = '198.51.100.200') =>
+    request(testApp()).post('/api/inbound/email').set(INBOUND_SECRET_HEADER, secret).set('X-Forwarded-For', from).send(body)
+
+  it('refuses a reply from a switched-off listener (403 listener_inactive), by e-mail as on the web', async () => {
+    const listener = await signedIn('listener')
+    const { case: c } = await openCase(listener.c)
+    const [{ reply_token: token }] = await db().query<{ reply_token: string }>('SELECT reply_token FROM cases WHERE id = $1', { bind: [c.id], type: QueryTypes.SELECT })
+    const sup = await signedIn('supervisor')
+    await sup.c.post(`/api/team/members/${listener.user.id}/deactivate`).expect(200)
+    const res = await post({ to: `reply+${token}@${config().MAIL_REPLY_DOMAIN}`, from: listener.user.email, subject: 'Re: case', text: 'written after being switched off' }, SECRET).expect(403)
+    expect(res.body.error.code).toBe('listener_inactive')
+    const [{ n }] = await db().query<{ n: string }>('SELECT count(*) AS n FROM messages WHERE case_id = $1 AND body = $2', { bind: [c.id, 'written after being switched off'], type: QueryTypes.SELECT })
+    expect(Number(n)).toBe(0)
+  })
+
+  it('a reply whose sender the receiving server found forged (RFC 8601 dmarc=fail, or spf=fail without dkim=pass) is held for the team, not posted as the listener', async () => {
+    const listener = await signedIn('listener')
+    const { case: c } = await openCase(listener.c)
+    const [{ reply_token: token }] = await db().query<{ reply_token: string }>('SELECT reply_token FROM cases WHERE id = $1', { bind: [c.id], type: QueryTypes.SELECT })
+    const to = `reply+${token}@${config().MAIL_REPLY_DOMAIN}`
+    const forged = await post({ to, from: listener.user.email, subject: 'Re: case', text: 'Please send the panels to my new address', authenticationResults: `mx.example.net; spf=fail smtp.mailfrom=${listener.user.email}; dkim=none; dmarc=fail header.from=example.test` }, SECRET, '198.51.100.201').expect(403)
+    expect(forged.body.error.code).toBe('sender_unverified')
+    const softly = await post({ to, from: listener.user.email, subject: 'Re: case', text: 'SPF failed but the signature holds', authenticationResults: 'mx.example.net; spf=fail smtp.mailfrom=example.test; dkim=pass header.d=example.test' }, SECRET, '198.51.100.201').expect(201)
+    expect(softly.body.accepted).toBe(true)
+    const thread = (await listener.c.get(`/api/cases/${c.id}/messages`).expect(200)).body.messages as { body: string }[]
+    expect(thread.some((m) => m.body.includes('new address'))).toBe(false)
+    expect(thread.some((m) => m.body === 'SPF failed but the signature holds')).toBe(true)
+    const advisor = await signedIn('advisor')
+    const staffThread = (await advisor.c.get(`/api/cases/${c.id}/messages`).expect(200)).body.messages as { body: string; internal: boolean }[]
+    expect(staffThread.find((m) => m.body.includes('new address'))).toMatchObject({ internal: true })
+  })
+
+  it('wrong secrets are limited per address (4 here, then 429), the right secret from another address still works', async () => {
+    const body = { to: `reply+nothing@${config().MAIL_REPLY_DOMAIN}`, from: 'someone@example.test', subject: 'x', text: 'x' }
+    for (let i = 0; i < 4; i++) await post(body, `guess-${i}-0123456789abcdef`, '203.0.113.90').expect(401)
+    expect((await post(body, SECRET, '203.0.113.90').expect(429)).body.error.code).toBe('rate_limited')
+    // right secret from elsewhere: past the limiter (403: no case has that token)
+    await post(body, SECRET, '203.0.113.91').expect(403)
+    // and right-secret answers never count: many 403s from one address stay 403
+    for (let i = 0; i < 6; i++) await post(body, SECRET, '203.0.113.92').expect(403)
+  })
+})
+
+describe('sign-up answers', () => {
+  it('a taken address answers 409 email_taken and nothing about the account (no id, no name)', async () => {
+    const taken = await makeUser('listener', 'Hidden Name Odalys')
+    const c = await client()
+    const res = await c.agent.post('/api/auth/register').set('X-CSRF-Token', c.csrf).set('X-Forwarded-For', '192.0.2.201').send({ email: taken.email, name: 'X Y', password: 'harbour-velvet-cinder-72' }).expect(409)
+    expect(JSON.stringify(res.body)).not.toContain('Odalys')
+    expect(JSON.stringify(res.body)).not.toContain(taken.id)
+  })
+})
