@@ -3,6 +3,7 @@ import '@fontsource/lato/700.css'
 import { createPinia } from 'pinia'
 import { createApp } from 'vue'
 import App from './App.vue'
+import { vScrollRegion } from './directives/scrollRegion'
 import { initialThemeName } from './composables/useThemePreference'
 import { vuetify } from './plugins/vuetify'
 import { router } from './router'
@@ -10,4 +11,4 @@ import './styles/app.css'
 
 vuetify.theme.change(initialThemeName())
 
-createApp(App).use(createPinia()).use(vuetify).use(router).mount('#app')
+createApp(App).directive('scroll-region', vScrollRegion).use(createPinia()).use(vuetify).use(router).mount('#app')

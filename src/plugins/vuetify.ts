@@ -23,7 +23,8 @@ const roomwright: ThemeDefinition = {
     error: '#B3261E',
     info: '#2B6A94',
     success: '#2E7453',
-    warning: '#A8620A',
+    // darker than a typical amber so warning text reads at 4.5:1 on the paper surfaces (WCAG 2.2 SC 1.4.3)
+    warning: '#8F5300',
   },
   variables: {
     'border-color': '#3B352E',
