@@ -12,6 +12,15 @@ export const migrationsDir = join(here, 'migrations')
 export type Migration = { up: (ctx: { context: QueryInterface }) => Promise<void>; down: (ctx: { context: QueryInterface }) => Promise<void> }
 
 /**
+ * Where umzug records applied migrations. The model name is our own: umzug's default model name
+ * (`SequelizeMeta`) is shared by every SequelizeStorage on one Sequelize instance, so the demo seed's
+ * storage reused this one and recorded its steps in schema_migrations instead of demo_seeds.
+ */
+export function migrationStorage(sequelize: Sequelize = db()): SequelizeStorage {
+  return new SequelizeStorage({ sequelize, modelName: 'SchemaMigration', tableName: 'schema_migrations' })
+}
+
+/**
  * Migrations are numbered files `NNNN-what-it-does.ts` in server/db/migrations, applied in name order.
  * `sequelize` is for the schema snapshot and its test (a database of their own).
  */
@@ -26,7 +35,7 @@ export function migrator(sequelize: Sequelize = db()) {
       down: async ({ context }) => ((await import(pathToFileURL(join(migrationsDir, file)).href)) as Migration).down({ context }),
     })),
     context: sequelize.getQueryInterface(),
-    storage: new SequelizeStorage({ sequelize, tableName: 'schema_migrations' }),
+    storage: migrationStorage(sequelize),
     logger: undefined,
   })
 }
