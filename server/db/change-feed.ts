@@ -45,6 +45,7 @@ function flush(c: pg.Client): void {
   const batch = waiting
   waiting = []
   syncing = true
+  // raw SQL: a bare round trip on the LISTEN connection (a barrier for notifications), no table involved
   c.query('SELECT 1').then(
     () => {
       syncing = false
@@ -101,6 +102,7 @@ async function connect(): Promise<void> {
   })
   try {
     await c.connect()
+    // raw SQL: LISTEN is a PostgreSQL command with no ORM form, on a pg client of its own
     await c.query(`LISTEN ${CHANGES_CHANNEL}`)
     if (client !== c) return
     // anything cached before this point may have missed a change
