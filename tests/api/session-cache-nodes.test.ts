@@ -6,12 +6,11 @@
  * Node B runs with a long cache bound (SESSION_CACHE_SECONDS=600), so only the invalidation can make it forget.
  */
 import { afterAll, beforeAll, describe, expect, it } from 'vitest'
-import { spawn, type ChildProcess } from 'node:child_process'
+import type { ChildProcess } from 'node:child_process'
 import request from 'supertest'
 import { startServer, type RunningServer } from '../../server/server'
 import { makeUser } from '../helpers/api'
-import { sessionFor } from '../helpers/sockets'
-import { freePort } from '../../server/dev/cluster'
+import { sessionFor, startOtherProcess } from '../helpers/sockets'
 import { db } from '../../server/db/sequelize'
 
 let a: RunningServer
@@ -20,20 +19,9 @@ let bUrl = ''
 
 beforeAll(async () => {
   a = await startServer({ port: 0, clientDir: false, background: false })
-  const port = await freePort()
-  other = spawn(process.execPath, ['--import', 'tsx', 'server/index.ts'], {
-    env: { ...process.env, PORT: String(port), JOBS: 'off', SESSION_CACHE_SECONDS: '600' },
-    stdio: ['ignore', 'pipe', 'pipe'],
-  })
-  let out = ''
-  other.stdout!.on('data', (d) => (out += d))
-  other.stderr!.on('data', (d) => (out += d))
-  const until = Date.now() + 60_000
-  while (!/listening on/.test(out)) {
-    if (Date.now() > until) throw new Error(`second process did not start:\n${out}`)
-    await new Promise((r) => setTimeout(r, 200))
-  }
-  bUrl = `http://127.0.0.1:${port}`
+  const b = await startOtherProcess({ SESSION_CACHE_SECONDS: '600' })
+  other = b.child
+  bUrl = b.url
 }, 90_000)
 
 afterAll(async () => {

@@ -1,9 +1,8 @@
 import { afterAll, describe, expect, it } from 'vitest'
-import { spawn, type ChildProcess } from 'node:child_process'
+import type { ChildProcess } from 'node:child_process'
 import { makeUser } from '../helpers/api'
 import { openCase } from '../helpers/cases'
-import { connectSocket, emitAck, httpClient, joinedSockets, nextEvent, sessionFor, useServer } from '../helpers/sockets'
-import { freePort } from '../../server/dev/cluster'
+import { connectSocket, emitAck, httpClient, joinedSockets, nextEvent, sessionFor, startOtherProcess, useServer } from '../helpers/sockets'
 
 const running = useServer()
 
@@ -98,17 +97,9 @@ describe('across two server processes (PostgreSQL adapter)', () => {
     other?.kill('SIGTERM')
   })
   it('a message posted on one process reaches a socket connected to the other', async () => {
-    const port = await freePort()
-    other = spawn(process.execPath, ['--import', 'tsx', 'server/index.ts'], { env: { ...process.env, PORT: String(port), JOBS: 'off' }, stdio: ['ignore', 'pipe', 'pipe'] })
-    let out = ''
-    other.stdout!.on('data', (d) => (out += d))
-    other.stderr!.on('data', (d) => (out += d))
-    const until = Date.now() + 60_000
-    while (!/listening on/.test(out)) {
-      if (Date.now() > until) throw new Error(`second process did not start:\n${out}`)
-      await new Promise((r) => setTimeout(r, 200))
-    }
-    const otherUrl = `http://127.0.0.1:${port}`
+    const o = await startOtherProcess()
+    other = o.child
+    const otherUrl = o.url
     const { listener, advisor, caseId, l } = await people()
     const remote = await sessionFor(otherUrl, l.email, l.password)
     const rs = await connectSocket(otherUrl, remote.cookie)

@@ -1,7 +1,9 @@
 import { afterAll, beforeAll } from 'vitest'
 import { io, type Socket } from 'socket.io-client'
 import request from 'supertest'
+import { spawn, type ChildProcess } from 'node:child_process'
 import { startServer, type RunningServer } from '../../server/server'
+import { freePort } from '../../server/dev/cluster'
 import { clientOver, type Client } from './api'
 
 /** This file's own server (API and sockets, no client files, no background jobs) on a free port, for its tests. */
@@ -14,6 +16,27 @@ export function useServer(): { server: RunningServer } {
     await running.server?.close()
   })
   return running
+}
+
+/**
+ * A second server process (`server/index.ts`) on this file's database, for tests across two nodes;
+ * resolves once it says it is listening (or fails with what it printed after 60 s).
+ */
+export async function startOtherProcess(env: Record<string, string> = {}): Promise<{ url: string; child: ChildProcess }> {
+  const port = await freePort()
+  const child = spawn(process.execPath, ['--import', 'tsx', 'server/index.ts'], {
+    env: { ...process.env, PORT: String(port), JOBS: 'off', ...env },
+    stdio: ['ignore', 'pipe', 'pipe'],
+  })
+  let out = ''
+  child.stdout!.on('data', (d) => (out += d))
+  child.stderr!.on('data', (d) => (out += d))
+  const until = Date.now() + 60_000
+  while (!/listening on/.test(out)) {
+    if (Date.now() > until) throw new Error(`second process did not start:\n${out}`)
+    await new Promise((r) => setTimeout(r, 200))
+  }
+  return { url: `http://127.0.0.1:${port}`, child }
 }
 
 /** Signs in over HTTP against a running server and returns the session cookie and CSRF token. */
