@@ -23,11 +23,11 @@ export const RESET_REQUESTED_MESSAGE =
 
 /**
  * The token travels in the fragment (#), which browsers never send to a server nor put in a Referer.
- * A staff account's link also says `for=staff`, so the page speaks of the desk (a display hint only:
+ * The link also says whose account it is (`for=staff` or `for=listener`), so the page speaks to them (a display hint only:
  * the server judges the token alone).
  */
 export const resetPasswordUrl = (token: string, role?: Role) =>
-  `${publicBaseUrl()}/reset-password#token=${token}${role && role !== 'listener' ? '&for=staff' : ''}`
+  `${publicBaseUrl()}/reset-password#token=${token}${role ? `&for=${role === 'listener' ? 'listener' : 'staff'}` : ''}`
 
 const wrongCurrent = () =>
   new AppError('Your current password is not right', { status: 400, code: 'bad_current_password', fields: [{ path: 'currentPassword', message: 'that is not your current password' }] })
