@@ -15,7 +15,7 @@ import type { BrowserContext, Page } from 'playwright-core'
 import { AxeBuilder } from '@axe-core/playwright'
 import { join } from 'node:path'
 import { QueryTypes } from 'sequelize'
-import { screenshotDir, signInAs, useProduct } from '../helpers/browser'
+import { DEMO_EMAILS, DESKTOP, PHONE, screenshotDir, signInAs, useProduct } from '../helpers/browser'
 import { sessionFor } from '../helpers/sockets'
 import { jpeg } from '../unit/uploads/make-files'
 import { db } from '../../server/db/sequelize'
@@ -23,13 +23,6 @@ import { seedDemo } from '../../server/seed'
 import { DEMO_PASSWORD } from '../../server/seed/people'
 import type { Role } from '../../shared/schemas/auth'
 
-const DEMO: Record<Role, string> = {
-  listener: 'listener@roomwright.test',
-  advisor: 'advisor@roomwright.test',
-  supervisor: 'supervisor@roomwright.test',
-}
-const DESKTOP = { width: 1280, height: 900 }
-const PHONE = { width: 390, height: 844 }
 type Theme = 'light' | 'dark'
 /** The theme names of src/plugins/vuetify.ts (not imported: that module loads Vuetify's CSS). */
 const themeNames = { light: 'roomwright', dark: 'roomwrightDark' } as const
@@ -42,11 +35,11 @@ const app = useProduct({
     const q = <T extends object>(sql: string, bind: unknown[]) => db().query<T>(sql, { bind, type: QueryTypes.SELECT })
     const [plan] = await q<{ id: string; room_id: string }>(
       `SELECT c.id, c.room_id FROM cases c JOIN users u ON u.id = c.listener_id WHERE u.email = $1 AND c.status = 'plan_sent' ORDER BY c.created_at LIMIT 1`,
-      [DEMO.listener],
+      [DEMO_EMAILS.listener],
     )
     const [review] = await q<{ id: string }>(
       `SELECT c.id FROM cases c JOIN users u ON u.id = c.assignee_id WHERE u.email = $1 AND c.status = 'in_review' ORDER BY c.created_at LIMIT 1`,
-      [DEMO.advisor],
+      [DEMO_EMAILS.advisor],
     )
     if (!plan || !review) throw new Error("the demo scenario lacks the listener's plan_sent case or the advisor's case in review")
     Object.assign(ids, { listenerCase: plan.id, listenerRoom: plan.room_id, reviewCase: review.id })
@@ -58,7 +51,7 @@ async function contextFor(role: Role, theme: Theme, viewport = DESKTOP): Promise
   const context = await app.browser.newContext({ viewport, isMobile: phone, hasTouch: phone })
   // the saved choice of the account menu's theme switch (useThemePreference)
   await context.addInitScript((name) => localStorage.setItem('roomwright.theme', name), themeNames[theme])
-  const page = await signInAs(context, app.server.url, DEMO[role], DEMO_PASSWORD)
+  const page = await signInAs(context, app.server.url, DEMO_EMAILS[role], DEMO_PASSWORD)
   await page.waitForURL((u) => !u.pathname.startsWith('/sign-in'), { timeout: 45_000 })
   return { context, page }
 }
@@ -171,7 +164,7 @@ let photoAdded = false
 /** A photo on the listener's demo case (the demo scenario has none), added once over HTTP. */
 async function addPhoto(): Promise<void> {
   if (photoAdded) return
-  const l = await sessionFor(app.server.url, DEMO.listener, DEMO_PASSWORD)
+  const l = await sessionFor(app.server.url, DEMO_EMAILS.listener, DEMO_PASSWORD)
   await l.agent.post(`/api/cases/${ids.listenerCase}/files`).set('X-CSRF-Token', l.csrf).attach('file', await jpeg(900, 600), 'front-wall-from-the-sofa.jpg').expect(201)
   photoAdded = true
 }

@@ -1,17 +1,11 @@
 import { describe, expect, it } from 'vitest'
 import type { Page } from 'playwright-core'
-import { signInAs, useProduct } from '../helpers/browser'
-import { makeUser } from '../helpers/api'
-import { createRoom } from '../../server/services/rooms'
-import { createCase, updateCase } from '../../server/services/cases'
+import { PHONE, signInAs, useProduct } from '../helpers/browser'
+import { caseInReview } from '../helpers/service-cases'
 import { createPlan } from '../../server/services/plans'
-import { demoRooms } from '../../server/seed/rooms'
 import { demoPlanBody } from '../../server/seed/demo-plan'
-import { roomSchema } from '../../shared/schemas/room'
 
 const app = useProduct({ timeout: 120_000 })
-
-const PHONE = { width: 390, height: 844 }
 
 /** The page's width and, when it is too wide, the widest elements (to say what pushes it out). */
 async function width(page: Page): Promise<{ scrollWidth: number; culprits: string[] }> {
@@ -31,13 +25,14 @@ async function width(page: Page): Promise<{ scrollWidth: number; culprits: strin
 
 describe('on a 390 px phone no page scrolls sideways', () => {
   it('queue, workspace, plan editor, dashboard, room editor, case page and team fit the screen', async () => {
-    const listener = await makeUser('listener', 'Philippa Ahenkorah')
-    const advisor = await makeUser('advisor', 'Tobiah Marchetti')
-    const supervisor = await makeUser('supervisor', 'Gwendolyn Osei')
-    const room = await createRoom(listener, roomSchema.parse({ ...demoRooms.smallStudio, name: 'Spare bedroom studio' }))
-    const c = await createCase(listener, { roomId: room.id, title: 'Narrow screen case', description: 'The bass **booms** at the desk.' })
-    await updateCase(listener, c.id, { status: 'submitted', fromStatus: 'draft' })
-    await updateCase(advisor, c.id, { status: 'in_review', fromStatus: 'submitted', assigneeId: advisor.id })
+    const { listener, advisor, supervisor, room, c } = await caseInReview({
+      names: { listener: 'Philippa Ahenkorah', advisor: 'Tobiah Marchetti', supervisor: 'Gwendolyn Osei' },
+      room: 'smallStudio',
+      roomName: 'Spare bedroom studio',
+      title: 'Narrow screen case',
+      description: 'The bass **booms** at the desk.',
+      assign: true,
+    })
     await createPlan(advisor, c.id, demoPlanBody(room.room, 'Corner traps first.'))
 
     const visits: Array<[typeof listener, string[]]> = [
