@@ -74,6 +74,7 @@ export function sessionMiddleware(opts: SessionOptions): { api: RequestHandler; 
       const s = store.createSession(req, hit.sess)
       s.touch()
       const expires = s.cookie.expires?.getTime() ?? NaN
+      // rolling expiry: stored expiry and cookie renewed at most every TOUCH_EVERY_MS (10 min), so an active session never lapses
       const due = Number.isFinite(expires) && store.touchDue(sid, expires)
       const insecure = s.cookie.secure && !req.secure
       if (due && !insecure) res.append('Set-Cookie', serialize(s.cookie, name, raw!))
