@@ -95,11 +95,12 @@ const schema = z.object({
    */
   SIGN_IN_BACKOFF_MAX_MS: whole('SIGN_IN_BACKOFF_MAX_MS', 5000, 0, 60_000),
   /**
-   * Per signed-in user (middleware/user-rate-limit.ts), in USER_RATE_WINDOW_MINUTES, counted in PostgreSQL
+   * Per signed-in user (middleware/user-rate-limit.ts), in USER_RATE_WINDOW_SECONDS, counted in PostgreSQL
    * across nodes; 429 with Retry-After past them. Generous for real use (SECURITY.md says why each); the
    * benches and `npm test` raise them through the environment only.
    */
-  USER_RATE_WINDOW_MINUTES: whole('USER_RATE_WINDOW_MINUTES', 10, 1, 24 * 60),
+  /** The window of the per-user limits, seconds (10 minutes by default; tests use a second or two). */
+  USER_RATE_WINDOW_SECONDS: whole('USER_RATE_WINDOW_SECONDS', 600, 1, 24 * 3600),
   /** messages and notes posted (POST /api/cases/:id/messages) */
   MESSAGE_RATE_LIMIT: whole('MESSAGE_RATE_LIMIT', 120, 1, 10_000_000),
   /** files uploaded (POST /api/cases/:id/files) */

@@ -24,7 +24,7 @@ const LIMIT_OF: Record<LimitedAction, keyof Config> = {
   reports: 'REPORT_RATE_LIMIT',
 }
 
-/** The budget of `action` per user in USER_RATE_WINDOW_MINUTES, from the configuration. */
+/** The budget of `action` per user in USER_RATE_WINDOW_SECONDS, from the configuration. */
 export function userLimitOf(action: LimitedAction): number {
   return config()[LIMIT_OF[action]] as number
 }
@@ -35,7 +35,7 @@ export function userLimitOf(action: LimitedAction): number {
  * through (a queue page without a search, say). Limiters of one action share one budget wherever mounted.
  */
 export function userRateLimit(action: LimitedAction, opts: { skip?: (req: Request) => boolean } = {}): RequestHandler {
-  const windowMs = config().USER_RATE_WINDOW_MINUTES * 60_000
+  const windowMs = config().USER_RATE_WINDOW_SECONDS * 1000
   return rateLimit({
     store: new PostgresRateLimitStore(`user-${action}`),
     windowMs,
@@ -45,9 +45,11 @@ export function userRateLimit(action: LimitedAction, opts: { skip?: (req: Reques
     identifier: action,
     skip: (req) => !req.user || (opts.skip?.(req) ?? false),
     keyGenerator: (req) => `user:${req.user!.id}`,
-    handler: (req, _res, next) => {
+    handler: (req, res, next) => {
+      // the words say the wait the Retry-After header says (the library set it just before)
+      const header = Number(res.getHeader('Retry-After'))
       const resetAt = (req as Request & { rateLimit?: RateLimitInfo }).rateLimit?.resetTime?.getTime() ?? Date.now() + windowMs
-      const seconds = Math.max(1, Math.ceil((resetAt - Date.now()) / 1000))
+      const seconds = Number.isFinite(header) && header > 0 ? header : Math.max(1, Math.ceil((resetAt - Date.now()) / 1000))
       next(new AppError(tooManyWords(action, seconds), { status: 429, code: 'too_many_requests' }))
     },
   })
