@@ -83,15 +83,19 @@ const schema = z.object({
   FAKE_SMTP: onOff('FAKE_SMTP', 'off'),
   INBOUND_EMAIL_SECRET: z.string().min(16, 'INBOUND_EMAIL_SECRET must be at least 16 characters').default(DEV_INBOUND_SECRET),
   JOBS: onOff('JOBS', 'on'),
-  /** Failed sign-ins allowed per account in SIGN_IN_WINDOW_MINUTES (successful ones do not count). */
+  /**
+   * Failed sign-ins allowed per account from one client address in SIGN_IN_WINDOW_MINUTES (successful ones do
+   * not count); past it that address gets 429 for that account. Also where the account-wide back-off starts
+   * (failures from all addresses together, auth/session.ts).
+   */
   SIGN_IN_FAILURES_PER_ACCOUNT: whole('SIGN_IN_FAILURES_PER_ACCOUNT', 10, 1, 1_000_000),
   /** Failed password attempts allowed per client address in the window (high: one office shares an address). */
   LOGIN_RATE_LIMIT: whole('LOGIN_RATE_LIMIT', 100, 1, 1_000_000),
   SIGN_IN_WINDOW_MINUTES: whole('SIGN_IN_WINDOW_MINUTES', 15, 1, 24 * 60),
   /**
-   * The longest extra wait (ms) before a sign-in attempt on an account that has more failures from all
-   * addresses than SIGN_IN_FAILURES_PER_ACCOUNT (auth/session.ts): a back-off that slows guessing without
-   * locking the owner out. Sign-ins from a device the account signed in from before skip it.
+   * The longest wait (ms) before a sign-in attempt on an account that has SIGN_IN_FAILURES_PER_ACCOUNT or
+   * more failures from all addresses in the window (auth/session.ts signInBackoffMs: 250 ms, doubling): a
+   * back-off that slows guessing without locking the owner out. 0 turns it off.
    */
   SIGN_IN_BACKOFF_MAX_MS: whole('SIGN_IN_BACKOFF_MAX_MS', 5000, 0, 60_000),
   /**
