@@ -80,7 +80,8 @@ interface AccountFailures { accountFailures?: { used: number } }
 /**
  * Counts FAILED sign-ins per account from every address (a success gives its attempt back) and holds each
  * new attempt for signInBackoffMs (SIGN_IN_FAILURES_PER_ACCOUNT, SIGN_IN_BACKOFF_MAX_MS) before its password
- * is checked; never refuses by itself. The wait is a timer, no worker or connection is held meanwhile.
+ * is checked; never refuses by itself. The wait is a timer: no worker thread or database connection is held
+ * meanwhile (the client's own HTTP connection is).
  */
 export function accountBackoff(): RequestHandler[] {
   const counter = rateLimit({
