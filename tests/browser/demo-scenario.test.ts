@@ -5,6 +5,7 @@ import { screenshotDir, signInAs, useProduct } from '../helpers/browser'
 import { db } from '../../server/db/sequelize'
 import { seedDemo } from '../../server/seed'
 import { DEMO_PASSWORD } from '../../server/seed/people'
+import { snippetPlaceholders } from '../../shared/schemas/snippet'
 
 const q = <T extends object>(sql: string, bind: unknown[] = []) => db().query<T>(sql, { bind, type: QueryTypes.SELECT })
 
@@ -97,6 +98,24 @@ describe('the demo scenario — every seeded case is consistent with its status'
     await page.getByTestId('snippet-title').locator('input').fill('Broken placeholder')
     await expect.poll(() => page.getByTestId('snippet-placeholder-problem').textContent()).toMatch(/\{\{listener\.first\}\} is not a placeholder; use one of .*\{\{listener\.name\}\}/)
     expect(await page.getByTestId('snippet-title-save').isDisabled()).toBe(true)
+    // the valid placeholders are listed beside the editor, open while the words are refused
+    const list = page.getByTestId('snippet-placeholders')
+    expect(await list.getAttribute('open')).not.toBeNull()
+    for (const name of Object.keys(snippetPlaceholders)) expect(await list.textContent()).toContain(`{{${name}}}`)
+    // with known placeholders the snippet is kept, and inserting it fills them with each unit once
+    await page.keyboard.press('Escape')
+    await page.getByTestId('snippet-title-save').waitFor({ state: 'hidden' })
+    await text.fill('Hi {{listener.name}}, the mode at {{room.firstAxialHz}} Hz matters.')
+    await page.getByTestId('snippet-picker').click()
+    await page.getByTestId('snippet-save').click()
+    await page.getByTestId('snippet-title').locator('input').fill('Mode at the chair')
+    expect(await page.getByTestId('snippet-placeholder-problem').count()).toBe(0)
+    await page.getByTestId('snippet-title-save').click()
+    await expect.poll(() => page.getByTestId('snippet-kept').textContent()).toMatch(/Kept as your snippet "Mode at the chair"/)
+    await text.fill('')
+    await page.getByTestId('snippet-picker').click()
+    await page.getByTestId('snippet-item').filter({ hasText: 'Mode at the chair' }).click()
+    await expect.poll(() => text.inputValue()).toMatch(/^Hi Jonas Mbeki, the mode at \d+(\.\d)? Hz matters\.$/)
     await context.close()
   })
 })
