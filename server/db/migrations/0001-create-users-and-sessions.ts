@@ -1,18 +1,18 @@
 import { DataTypes, type QueryInterface } from 'sequelize'
-import { lower, stamp, uuidKey } from '../migration-columns'
+import { lower, optional, required, stamp, uuidKey } from '../columns'
 
 export async function up({ context: q }: { context: QueryInterface }): Promise<void> {
   // Raw SQL: QueryInterface cannot create an extension (pgcrypto, for gen_random_uuid on older servers).
   await q.sequelize.query('CREATE EXTENSION IF NOT EXISTS pgcrypto')
   await q.createTable('users', {
     id: uuidKey(),
-    email: { type: DataTypes.STRING(254), allowNull: false },
-    name: { type: DataTypes.STRING(120), allowNull: false },
-    role: { type: DataTypes.ENUM('listener', 'advisor', 'supervisor'), allowNull: false },
-    password_hash: { type: DataTypes.STRING(100), allowNull: true },
-    active: { type: DataTypes.BOOLEAN, allowNull: false, defaultValue: true },
-    units: { type: DataTypes.ENUM('metric', 'imperial'), allowNull: false, defaultValue: 'metric' },
-    email_optional: { type: DataTypes.BOOLEAN, allowNull: false, defaultValue: true },
+    email: required(DataTypes.STRING(254)),
+    name: required(DataTypes.STRING(120)),
+    role: required(DataTypes.ENUM('listener', 'advisor', 'supervisor')),
+    password_hash: optional(DataTypes.STRING(100)),
+    active: required(DataTypes.BOOLEAN, true),
+    units: required(DataTypes.ENUM('metric', 'imperial'), 'metric'),
+    email_optional: required(DataTypes.BOOLEAN, true),
     created_at: stamp(),
     updated_at: stamp(),
   })
@@ -22,8 +22,8 @@ export async function up({ context: q }: { context: QueryInterface }): Promise<v
   // time zone), created here so that no library creates schema at run time.
   await q.createTable('session', {
     sid: { type: 'VARCHAR', allowNull: false, primaryKey: true },
-    sess: { type: DataTypes.JSON, allowNull: false },
-    expire: { type: 'TIMESTAMP(6)', allowNull: false },
+    sess: required(DataTypes.JSON),
+    expire: required('TIMESTAMP(6)'),
   })
   await q.addIndex('session', { fields: ['expire'], name: 'IDX_session_expire' })
   // Raw SQL: QueryInterface cannot say a generated column.

@@ -1,12 +1,12 @@
 import { DataTypes, type QueryInterface } from 'sequelize'
-import { desc, ref, stamp, uuidKey } from '../migration-columns'
+import { desc, ref, required, stamp, uuidKey } from '../columns'
 
 export async function up({ context: q }: { context: QueryInterface }): Promise<void> {
   await q.createTable('rooms', {
     id: uuidKey(),
     owner_id: ref('users', 'CASCADE', true),
-    name: { type: DataTypes.STRING(120), allowNull: false },
-    current_revision: { type: DataTypes.INTEGER, allowNull: false, defaultValue: 1 },
+    name: required(DataTypes.STRING(120)),
+    current_revision: required(DataTypes.INTEGER, 1),
     created_at: stamp(),
     updated_at: stamp(),
   })
@@ -14,7 +14,7 @@ export async function up({ context: q }: { context: QueryInterface }): Promise<v
   await q.createTable('room_revisions', {
     room_id: { ...ref('rooms', 'CASCADE', true), primaryKey: true },
     revision: { type: DataTypes.INTEGER, primaryKey: true, allowNull: false },
-    body: { type: DataTypes.JSONB, allowNull: false },
+    body: required(DataTypes.JSONB),
     created_by: ref('users', 'SET NULL'),
     created_at: stamp(),
   })

@@ -1,5 +1,5 @@
 import { DataTypes, Op, type QueryInterface } from 'sequelize'
-import { desc, emptyLiteral, maybeAt, ref, serialKey, stamp, uuidKey } from '../migration-columns'
+import { desc, emptyLiteral, maybeAt, optional, ref, required, serialKey, stamp, uuidKey } from '../columns'
 
 /** The case status enum, named by us (QueryInterface would name it enum_cases_status and make one per table). */
 const caseStatus = 'case_status' as unknown as typeof DataTypes.STRING
@@ -11,14 +11,14 @@ export async function up({ context: q }: { context: QueryInterface }): Promise<v
     id: uuidKey(),
     listener_id: ref('users', 'CASCADE', true),
     room_id: ref('rooms', 'RESTRICT', true),
-    room_revision: { type: DataTypes.INTEGER, allowNull: false },
-    title: { type: DataTypes.STRING(160), allowNull: false },
-    description: { type: DataTypes.TEXT, allowNull: false, defaultValue: '' },
-    answers: { type: DataTypes.JSONB, allowNull: false, defaultValue: emptyLiteral() },
-    status: { type: caseStatus, allowNull: false, defaultValue: 'draft' },
+    room_revision: required(DataTypes.INTEGER),
+    title: required(DataTypes.STRING(160)),
+    description: required(DataTypes.TEXT, ''),
+    answers: required(DataTypes.JSONB, emptyLiteral()),
+    status: required(caseStatus, 'draft'),
     assignee_id: ref('users', 'SET NULL'),
-    score: { type: DataTypes.REAL, allowNull: true },
-    flag_ids: { type: DataTypes.ARRAY(DataTypes.TEXT), allowNull: false, defaultValue: emptyLiteral() },
+    score: optional(DataTypes.REAL),
+    flag_ids: required(DataTypes.ARRAY(DataTypes.TEXT), emptyLiteral()),
     reply_token: { type: DataTypes.STRING(64), allowNull: false, unique: true },
     submitted_at: maybeAt(),
     waiting_since: maybeAt(),
@@ -44,10 +44,10 @@ export async function up({ context: q }: { context: QueryInterface }): Promise<v
     id: serialKey(),
     case_id: ref('cases', 'CASCADE', true),
     actor_id: ref('users', 'SET NULL'),
-    kind: { type: DataTypes.STRING(40), allowNull: false },
-    from_status: { type: caseStatus, allowNull: true },
-    to_status: { type: caseStatus, allowNull: true },
-    data: { type: DataTypes.JSONB, allowNull: false, defaultValue: emptyLiteral() },
+    kind: required(DataTypes.STRING(40)),
+    from_status: optional(caseStatus),
+    to_status: optional(caseStatus),
+    data: required(DataTypes.JSONB, emptyLiteral()),
     created_at: stamp(),
   })
   await q.addIndex('case_events', { fields: ['case_id', 'id'], name: 'case_events_case' })
@@ -57,9 +57,9 @@ export async function up({ context: q }: { context: QueryInterface }): Promise<v
     id: uuidKey(),
     case_id: ref('cases', 'CASCADE', true),
     author_id: ref('users', 'SET NULL'),
-    body: { type: DataTypes.TEXT, allowNull: false },
-    internal: { type: DataTypes.BOOLEAN, allowNull: false, defaultValue: false },
-    source: { type: DataTypes.STRING(10), allowNull: false, defaultValue: 'app' },
+    body: required(DataTypes.TEXT),
+    internal: required(DataTypes.BOOLEAN, false),
+    source: required(DataTypes.STRING(10), 'app'),
     created_at: stamp(),
   })
   // Raw SQL: QueryInterface cannot say a generated column (the full-text document of the message).
@@ -72,15 +72,15 @@ export async function up({ context: q }: { context: QueryInterface }): Promise<v
     case_id: ref('cases', 'CASCADE', true),
     uploader_id: ref('users', 'SET NULL'),
     message_id: ref('messages', 'SET NULL'),
-    kind: { type: DataTypes.STRING(20), allowNull: false },
-    original_name: { type: DataTypes.STRING(255), allowNull: false },
-    mime: { type: DataTypes.STRING(100), allowNull: false },
-    size: { type: DataTypes.BIGINT, allowNull: false },
-    storage_key: { type: DataTypes.STRING(255), allowNull: false },
-    thumb_key: { type: DataTypes.STRING(255), allowNull: true },
-    analysis_status: { type: DataTypes.STRING(10), allowNull: true },
-    analysis: { type: DataTypes.JSONB, allowNull: true },
-    analysis_error: { type: DataTypes.TEXT, allowNull: true },
+    kind: required(DataTypes.STRING(20)),
+    original_name: required(DataTypes.STRING(255)),
+    mime: required(DataTypes.STRING(100)),
+    size: required(DataTypes.BIGINT),
+    storage_key: required(DataTypes.STRING(255)),
+    thumb_key: optional(DataTypes.STRING(255)),
+    analysis_status: optional(DataTypes.STRING(10)),
+    analysis: optional(DataTypes.JSONB),
+    analysis_error: optional(DataTypes.TEXT),
     created_at: stamp(),
   })
   await q.addIndex('files', { fields: ['case_id', 'created_at'], name: 'files_case' })
@@ -88,10 +88,10 @@ export async function up({ context: q }: { context: QueryInterface }): Promise<v
   await q.createTable('triage_snapshots', {
     id: serialKey(),
     case_id: ref('cases', 'CASCADE', true),
-    room_revision: { type: DataTypes.INTEGER, allowNull: false },
-    engine_version: { type: DataTypes.STRING(40), allowNull: false },
-    body: { type: DataTypes.JSONB, allowNull: false },
-    score: { type: DataTypes.REAL, allowNull: false },
+    room_revision: required(DataTypes.INTEGER),
+    engine_version: required(DataTypes.STRING(40)),
+    body: required(DataTypes.JSONB),
+    score: required(DataTypes.REAL),
     computed_at: stamp(),
   })
   await q.addIndex('triage_snapshots', { fields: ['case_id', desc('id')], name: 'triage_case' })

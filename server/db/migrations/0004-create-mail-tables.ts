@@ -1,25 +1,25 @@
 import { DataTypes, Op, type QueryInterface } from 'sequelize'
-import { desc, emptyLiteral, maybeAt, ref, serialKey, stamp } from '../migration-columns'
+import { desc, emptyLiteral, maybeAt, optional, ref, required, serialKey, stamp } from '../columns'
 
 export async function up({ context: q }: { context: QueryInterface }): Promise<void> {
   await q.createTable('email_outbox', {
     id: { type: DataTypes.UUID, primaryKey: true, allowNull: false },
-    to_address: { type: DataTypes.STRING(254), allowNull: false },
+    to_address: required(DataTypes.STRING(254)),
     to_user_id: ref('users', 'SET NULL'),
-    kind: { type: DataTypes.STRING(40), allowNull: false },
+    kind: required(DataTypes.STRING(40)),
     case_id: ref('cases', 'SET NULL'),
-    subject: { type: DataTypes.STRING(300), allowNull: false },
-    html: { type: DataTypes.TEXT, allowNull: false },
-    text: { type: DataTypes.TEXT, allowNull: false },
-    reply_to: { type: DataTypes.STRING(254), allowNull: true },
-    status: { type: DataTypes.STRING(10), allowNull: false, defaultValue: 'queued' },
-    attempts: { type: DataTypes.INTEGER, allowNull: false, defaultValue: 0 },
-    last_error: { type: DataTypes.TEXT, allowNull: true },
+    subject: required(DataTypes.STRING(300)),
+    html: required(DataTypes.TEXT),
+    text: required(DataTypes.TEXT),
+    reply_to: optional(DataTypes.STRING(254)),
+    status: required(DataTypes.STRING(10), 'queued'),
+    attempts: required(DataTypes.INTEGER, 0),
+    last_error: optional(DataTypes.TEXT),
     next_attempt_at: stamp(),
     sent_at: maybeAt(),
     message_id: { type: DataTypes.STRING(255), allowNull: false, unique: true },
-    job_id: { type: DataTypes.UUID, allowNull: true },
-    smtp_response: { type: DataTypes.TEXT, allowNull: true },
+    job_id: optional(DataTypes.UUID),
+    smtp_response: optional(DataTypes.TEXT),
     created_at: stamp(),
     updated_at: stamp(),
   })
@@ -30,14 +30,14 @@ export async function up({ context: q }: { context: QueryInterface }): Promise<v
 
   await q.createTable('dev_mailbox', {
     id: serialKey(),
-    message_id: { type: DataTypes.STRING(255), allowNull: true },
-    envelope_from: { type: DataTypes.STRING(254), allowNull: true },
-    envelope_to: { type: DataTypes.ARRAY(DataTypes.TEXT), allowNull: false, defaultValue: emptyLiteral() },
-    subject: { type: DataTypes.TEXT, allowNull: false, defaultValue: '' },
-    text: { type: DataTypes.TEXT, allowNull: true },
-    html: { type: DataTypes.TEXT, allowNull: true },
-    headers: { type: DataTypes.JSONB, allowNull: false, defaultValue: emptyLiteral() },
-    raw_size: { type: DataTypes.INTEGER, allowNull: false },
+    message_id: optional(DataTypes.STRING(255)),
+    envelope_from: optional(DataTypes.STRING(254)),
+    envelope_to: required(DataTypes.ARRAY(DataTypes.TEXT), emptyLiteral()),
+    subject: required(DataTypes.TEXT, ''),
+    text: optional(DataTypes.TEXT),
+    html: optional(DataTypes.TEXT),
+    headers: required(DataTypes.JSONB, emptyLiteral()),
+    raw_size: required(DataTypes.INTEGER),
     received_at: stamp(),
   })
   await q.addIndex('dev_mailbox', { fields: [desc('received_at')], name: 'dev_mailbox_received' })
@@ -45,12 +45,12 @@ export async function up({ context: q }: { context: QueryInterface }): Promise<v
 
   await q.createTable('inbound_email_log', {
     id: serialKey(),
-    via: { type: DataTypes.STRING(10), allowNull: false },
-    status: { type: DataTypes.STRING(10), allowNull: false },
-    reason: { type: DataTypes.STRING(40), allowNull: true },
-    to_address: { type: DataTypes.TEXT, allowNull: true },
-    from_address: { type: DataTypes.TEXT, allowNull: true },
-    subject: { type: DataTypes.TEXT, allowNull: true },
+    via: required(DataTypes.STRING(10)),
+    status: required(DataTypes.STRING(10)),
+    reason: optional(DataTypes.STRING(40)),
+    to_address: optional(DataTypes.TEXT),
+    from_address: optional(DataTypes.TEXT),
+    subject: optional(DataTypes.TEXT),
     case_id: ref('cases', 'SET NULL'),
     created_at: stamp(),
   })

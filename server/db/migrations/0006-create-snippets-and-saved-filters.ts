@@ -1,11 +1,11 @@
 import { DataTypes, type QueryInterface } from 'sequelize'
-import { lower, ref, stamp, uuidKey } from '../migration-columns'
+import { lower, ref, required, stamp, uuidKey } from '../columns'
 
 export async function up({ context: q }: { context: QueryInterface }): Promise<void> {
   await q.createTable('reply_snippets', {
     id: uuidKey(),
-    title: { type: DataTypes.STRING(80), allowNull: false },
-    body: { type: DataTypes.TEXT, allowNull: false },
+    title: required(DataTypes.STRING(80)),
+    body: required(DataTypes.TEXT),
     created_by: ref('users', 'SET NULL'),
     created_at: stamp(),
     updated_at: stamp(),
@@ -14,8 +14,8 @@ export async function up({ context: q }: { context: QueryInterface }): Promise<v
   await q.createTable('saved_filters', {
     id: uuidKey(),
     user_id: ref('users', 'CASCADE', true),
-    name: { type: DataTypes.STRING(60), allowNull: false },
-    query: { type: DataTypes.JSONB, allowNull: false },
+    name: required(DataTypes.STRING(60)),
+    query: required(DataTypes.JSONB),
     created_at: stamp(),
   })
   await q.addIndex('saved_filters', { fields: ['user_id', lower('name')], name: 'saved_filters_user_name', unique: true })

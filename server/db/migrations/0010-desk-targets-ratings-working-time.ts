@@ -1,5 +1,5 @@
 import { DataTypes, Op, literal, type QueryInterface } from 'sequelize'
-import { maybeAt, ref, stamp } from '../migration-columns'
+import { maybeAt, optional, ref, required, stamp } from '../columns'
 
 /**
  * Response targets and business hours (one row), satisfaction ratings, and `rw_working_seconds`:
@@ -10,11 +10,11 @@ export async function up({ context: q }: { context: QueryInterface }): Promise<v
   // literal: QueryInterface would quote a number default of a DOUBLE column as a string ('24'::double precision).
   await q.createTable('desk_settings', {
     id: { type: DataTypes.SMALLINT, primaryKey: true, allowNull: false, defaultValue: 1 },
-    first_response_hours: { type: DataTypes.DOUBLE, allowNull: false, defaultValue: literal('24') },
-    resolution_hours: { type: DataTypes.DOUBLE, allowNull: false, defaultValue: literal('120') },
-    warn_at_percent: { type: DataTypes.INTEGER, allowNull: false, defaultValue: 75 },
-    time_zone: { type: DataTypes.STRING(64), allowNull: true },
-    week: { type: DataTypes.JSONB, allowNull: true },
+    first_response_hours: required(DataTypes.DOUBLE, literal('24')),
+    resolution_hours: required(DataTypes.DOUBLE, literal('120')),
+    warn_at_percent: required(DataTypes.INTEGER, 75),
+    time_zone: optional(DataTypes.STRING(64)),
+    week: optional(DataTypes.JSONB),
     updated_at: maybeAt(),
     updated_by: ref('users', 'SET NULL'),
   })
@@ -24,8 +24,8 @@ export async function up({ context: q }: { context: QueryInterface }): Promise<v
   await q.createTable('case_ratings', {
     case_id: { ...ref('cases', 'CASCADE', true), primaryKey: true },
     listener_id: ref('users', 'CASCADE', true),
-    score: { type: DataTypes.SMALLINT, allowNull: false },
-    comment: { type: DataTypes.TEXT, allowNull: false, defaultValue: '' },
+    score: required(DataTypes.SMALLINT),
+    comment: required(DataTypes.TEXT, ''),
     created_at: stamp(),
   })
   await q.addConstraint('case_ratings', { type: 'check', name: 'case_ratings_score_check', fields: ['score'], where: { score: { [Op.between]: [1, 5] } } })

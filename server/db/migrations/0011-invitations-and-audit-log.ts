@@ -1,18 +1,18 @@
 import { DataTypes, type QueryInterface } from 'sequelize'
-import { desc, emptyLiteral, lower, maybeAt, ref, serialKey, stamp, uuidKey } from '../migration-columns'
+import { desc, emptyLiteral, lower, maybeAt, optional, ref, required, serialKey, stamp, uuidKey } from '../columns'
 
 /** Invitations to the team (one-time links, only a SHA-256 of the token is kept) and the audit log. */
 export async function up({ context: q }: { context: QueryInterface }): Promise<void> {
   await q.createTable('team_invitations', {
     id: uuidKey(),
-    email: { type: DataTypes.STRING(254), allowNull: false },
-    name: { type: DataTypes.STRING(120), allowNull: false },
+    email: required(DataTypes.STRING(254)),
+    name: required(DataTypes.STRING(120)),
     // The users' role enum of migration 0001, named as a type (QueryInterface would otherwise create a second enum type).
     role: { type: 'enum_users_role' as unknown as typeof DataTypes.STRING, allowNull: false },
     token_hash: { type: DataTypes.CHAR(64), allowNull: false, unique: true },
     invited_by: ref('users', 'SET NULL'),
     created_at: stamp(),
-    expires_at: { type: DataTypes.DATE, allowNull: false },
+    expires_at: required(DataTypes.DATE),
     accepted_at: maybeAt(),
     accepted_user_id: ref('users', 'SET NULL'),
     revoked_at: maybeAt(),
@@ -23,11 +23,11 @@ export async function up({ context: q }: { context: QueryInterface }): Promise<v
   await q.createTable('audit_log', {
     id: serialKey(),
     actor_id: ref('users', 'SET NULL'),
-    action: { type: DataTypes.STRING(40), allowNull: false },
+    action: required(DataTypes.STRING(40)),
     target_user_id: ref('users', 'SET NULL'),
-    target_name: { type: DataTypes.STRING(120), allowNull: true },
-    target_email: { type: DataTypes.STRING(254), allowNull: true },
-    details: { type: DataTypes.JSONB, allowNull: false, defaultValue: emptyLiteral() },
+    target_name: optional(DataTypes.STRING(120)),
+    target_email: optional(DataTypes.STRING(254)),
+    details: required(DataTypes.JSONB, emptyLiteral()),
     created_at: stamp(),
   })
   await q.addIndex('audit_log', { fields: [desc('created_at'), desc('id')], name: 'audit_log_time' })

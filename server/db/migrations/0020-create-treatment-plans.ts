@@ -1,5 +1,5 @@
 import { DataTypes, Op, type QueryInterface } from 'sequelize'
-import { desc, maybeAt, ref, stamp, uuidKey } from '../migration-columns'
+import { desc, maybeAt, ref, required, stamp, uuidKey } from '../columns'
 
 /**
  * Treatment plans: numbered versions per case. A saved version never changes (a trigger refuses any
@@ -9,12 +9,12 @@ export async function up({ context: q }: { context: QueryInterface }): Promise<v
   await q.createTable('treatment_plans', {
     id: uuidKey(),
     case_id: ref('cases', 'CASCADE', true),
-    version: { type: DataTypes.INTEGER, allowNull: false },
+    version: required(DataTypes.INTEGER),
     room_id: ref('rooms', 'RESTRICT', true),
-    room_revision: { type: DataTypes.INTEGER, allowNull: false },
-    body: { type: DataTypes.JSONB, allowNull: false },
-    predictions: { type: DataTypes.JSONB, allowNull: false },
-    engine_version: { type: DataTypes.STRING(40), allowNull: false },
+    room_revision: required(DataTypes.INTEGER),
+    body: required(DataTypes.JSONB),
+    predictions: required(DataTypes.JSONB),
+    engine_version: required(DataTypes.STRING(40)),
     created_by: ref('users', 'SET NULL'),
     created_at: stamp(),
     sent_at: maybeAt(),

@@ -1,5 +1,5 @@
 import { DataTypes, type QueryInterface } from 'sequelize'
-import { lower } from '../migration-columns'
+import { lower, required } from '../columns'
 
 /**
  * Reply snippets get an owner scope: `personal` ones belong to their author alone (created_by),
@@ -9,9 +9,9 @@ import { lower } from '../migration-columns'
  * Titles are unique per author among personal snippets and across the team among team snippets.
  */
 export async function up({ context: q }: { context: QueryInterface }): Promise<void> {
-  await q.addColumn('reply_snippets', 'scope', { type: DataTypes.STRING(8), allowNull: false, defaultValue: 'team' })
+  await q.addColumn('reply_snippets', 'scope', required(DataTypes.STRING(8), 'team'))
   // changeColumn also says the column's type again, which would re-derive a check on it: so the check comes after.
-  await q.changeColumn('reply_snippets', 'scope', { type: DataTypes.STRING(8), allowNull: false, defaultValue: 'personal' })
+  await q.changeColumn('reply_snippets', 'scope', required(DataTypes.STRING(8), 'personal'))
   await q.addConstraint('reply_snippets', { type: 'check', name: 'reply_snippets_scope_check', fields: ['scope'], where: { scope: ['personal', 'team'] } })
   await q.removeIndex('reply_snippets', 'reply_snippets_title')
   await q.addIndex('reply_snippets', { fields: [lower('title')], name: 'reply_snippets_team_title', unique: true, where: { scope: 'team' } })

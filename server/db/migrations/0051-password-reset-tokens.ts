@@ -1,5 +1,5 @@
 import { DataTypes, type QueryInterface } from 'sequelize'
-import { desc, maybeAt, ref, stamp, uuidKey } from '../migration-columns'
+import { desc, maybeAt, ref, required, stamp, uuidKey } from '../columns'
 
 /**
  * One-time links for choosing a new password. Only a SHA-256 of the token is kept (a leaked row
@@ -12,7 +12,7 @@ export async function up({ context: q }: { context: QueryInterface }): Promise<v
     user_id: ref('users', 'CASCADE', true),
     token_hash: { type: DataTypes.CHAR(64), allowNull: false, unique: true },
     created_at: stamp(),
-    expires_at: { type: DataTypes.DATE, allowNull: false },
+    expires_at: required(DataTypes.DATE),
     spent_at: maybeAt(),
   })
   await q.addIndex('password_reset_tokens', { fields: ['user_id', desc('created_at')], name: 'password_reset_tokens_user' })

@@ -1,4 +1,5 @@
 import { DataTypes, type QueryInterface } from 'sequelize'
+import { required } from '../columns'
 
 /**
  * Rate-limit counters shared by every node (express-rate-limit's store, server/middleware/rate-limit-store.ts):
@@ -8,8 +9,8 @@ import { DataTypes, type QueryInterface } from 'sequelize'
 export async function up({ context: q }: { context: QueryInterface }): Promise<void> {
   await q.createTable('rate_limit_hits', {
     key: { type: DataTypes.STRING(100), primaryKey: true, allowNull: false },
-    hits: { type: DataTypes.INTEGER, allowNull: false, defaultValue: 0 },
-    reset_at: { type: DataTypes.DATE, allowNull: false },
+    hits: required(DataTypes.INTEGER, 0),
+    reset_at: required(DataTypes.DATE),
   })
   await q.addIndex('rate_limit_hits', { fields: ['reset_at'], name: 'rate_limit_hits_reset_at' })
 }

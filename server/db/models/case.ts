@@ -6,7 +6,7 @@ import type { RoomModel, RoomRevisionModel } from './room'
 import type { MessageModel } from './message'
 import type { FileModel } from './file'
 import type { TreatmentPlanModel } from './plan'
-import { dbNow } from './now'
+import { appUuidKey, maybeAt, optional, required, serialKey, stampNow, timestamps } from '../columns'
 
 export type FlagSummary = { id: string; severity: string }
 
@@ -80,46 +80,45 @@ export function initCases(sequelize: Sequelize) {
   const status = DataTypes.ENUM(...caseStatuses)
   CaseModel.init(
     {
-      id: { type: DataTypes.UUID, primaryKey: true, defaultValue: DataTypes.UUIDV4 },
-      roomRevision: { type: DataTypes.INTEGER, allowNull: false },
-      title: { type: DataTypes.STRING(160), allowNull: false },
-      description: { type: DataTypes.TEXT, allowNull: false, defaultValue: '' },
-      answers: { type: DataTypes.JSONB, allowNull: false, defaultValue: {} },
-      status: { type: status, allowNull: false, defaultValue: 'draft' },
-      score: { type: DataTypes.REAL, allowNull: true },
-      flagIds: { type: DataTypes.ARRAY(DataTypes.TEXT), allowNull: false, defaultValue: [] },
-      flags: { type: DataTypes.JSONB, allowNull: false, defaultValue: [] },
+      id: appUuidKey(),
+      roomRevision: required(DataTypes.INTEGER),
+      title: required(DataTypes.STRING(160)),
+      description: required(DataTypes.TEXT, ''),
+      answers: required(DataTypes.JSONB, {}),
+      status: required(status, 'draft'),
+      score: optional(DataTypes.REAL),
+      flagIds: required(DataTypes.ARRAY(DataTypes.TEXT), []),
+      flags: required(DataTypes.JSONB, []),
       replyToken: { type: DataTypes.STRING(64), allowNull: false, unique: true },
-      submittedAt: { type: DataTypes.DATE, allowNull: true },
-      waitingSince: { type: DataTypes.DATE, allowNull: true },
-      firstResponseAt: { type: DataTypes.DATE, allowNull: true },
-      closedAt: { type: DataTypes.DATE, allowNull: true },
-      lastActivityAt: { type: DataTypes.DATE, allowNull: false, defaultValue: dbNow() },
-      createdAt: { type: DataTypes.DATE, allowNull: false, defaultValue: dbNow() },
-      updatedAt: { type: DataTypes.DATE, allowNull: false, defaultValue: dbNow() },
+      submittedAt: maybeAt(),
+      waitingSince: maybeAt(),
+      firstResponseAt: maybeAt(),
+      closedAt: maybeAt(),
+      lastActivityAt: stampNow(),
+      ...timestamps(),
     },
     // `search` (a generated tsvector) is left out: only the queue's full-text SQL reads it.
     { sequelize, modelName: 'Case', tableName: 'cases', underscored: true, timestamps: false },
   )
   CaseEventModel.init(
     {
-      id: { type: DataTypes.BIGINT, primaryKey: true, autoIncrement: true },
-      kind: { type: DataTypes.STRING(40), allowNull: false },
-      fromStatus: { type: status, allowNull: true },
-      toStatus: { type: status, allowNull: true },
-      data: { type: DataTypes.JSONB, allowNull: false, defaultValue: {} },
-      createdAt: { type: DataTypes.DATE, allowNull: false, defaultValue: dbNow() },
+      id: serialKey(),
+      kind: required(DataTypes.STRING(40)),
+      fromStatus: optional(status),
+      toStatus: optional(status),
+      data: required(DataTypes.JSONB, {}),
+      createdAt: stampNow(),
     },
     { sequelize, modelName: 'CaseEvent', tableName: 'case_events', underscored: true, timestamps: false },
   )
   TriageSnapshotModel.init(
     {
-      id: { type: DataTypes.BIGINT, primaryKey: true, autoIncrement: true },
-      roomRevision: { type: DataTypes.INTEGER, allowNull: false },
-      engineVersion: { type: DataTypes.STRING(40), allowNull: false },
-      body: { type: DataTypes.JSONB, allowNull: false },
-      score: { type: DataTypes.REAL, allowNull: false },
-      computedAt: { type: DataTypes.DATE, allowNull: false, defaultValue: dbNow() },
+      id: serialKey(),
+      roomRevision: required(DataTypes.INTEGER),
+      engineVersion: required(DataTypes.STRING(40)),
+      body: required(DataTypes.JSONB),
+      score: required(DataTypes.REAL),
+      computedAt: stampNow(),
     },
     { sequelize, modelName: 'TriageSnapshot', tableName: 'triage_snapshots', underscored: true, timestamps: false },
   )
@@ -127,8 +126,8 @@ export function initCases(sequelize: Sequelize) {
     {
       caseId: { type: DataTypes.UUID, primaryKey: true },
       score: { type: DataTypes.SMALLINT, allowNull: false, validate: { min: 1, max: 5 } },
-      comment: { type: DataTypes.TEXT, allowNull: false, defaultValue: '' },
-      createdAt: { type: DataTypes.DATE, allowNull: false, defaultValue: dbNow() },
+      comment: required(DataTypes.TEXT, ''),
+      createdAt: stampNow(),
     },
     { sequelize, modelName: 'CaseRating', tableName: 'case_ratings', underscored: true, timestamps: false },
   )

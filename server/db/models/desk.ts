@@ -2,7 +2,7 @@ import { DataTypes, Model, type CreationOptional, type ForeignKey, type InferAtt
 import type { BusinessHours } from '../../../shared/schemas/metrics'
 import type { SavedFilterInput } from '../../../shared/schemas/queue'
 import type { UserModel } from './user'
-import { dbNow } from './now'
+import { appUuidKey, maybeAt, optional, required, stampNow, timestamps } from '../columns'
 
 export class ReplySnippetModel extends Model<InferAttributes<ReplySnippetModel>, InferCreationAttributes<ReplySnippetModel>> {
   declare id: CreationOptional<string>
@@ -40,33 +40,32 @@ export class DeskSettingsModel extends Model<InferAttributes<DeskSettingsModel>,
 export function initDesk(sequelize: Sequelize) {
   ReplySnippetModel.init(
     {
-      id: { type: DataTypes.UUID, primaryKey: true, defaultValue: DataTypes.UUIDV4 },
-      title: { type: DataTypes.STRING(80), allowNull: false },
-      body: { type: DataTypes.TEXT, allowNull: false },
+      id: appUuidKey(),
+      title: required(DataTypes.STRING(80)),
+      body: required(DataTypes.TEXT),
       scope: { type: DataTypes.STRING(8), allowNull: false, defaultValue: 'personal', validate: { isIn: [['personal', 'team']] } },
-      createdAt: { type: DataTypes.DATE, allowNull: false, defaultValue: dbNow() },
-      updatedAt: { type: DataTypes.DATE, allowNull: false, defaultValue: dbNow() },
+      ...timestamps(),
     },
     { sequelize, modelName: 'ReplySnippet', tableName: 'reply_snippets', underscored: true, timestamps: false },
   )
   SavedFilterModel.init(
     {
-      id: { type: DataTypes.UUID, primaryKey: true, defaultValue: DataTypes.UUIDV4 },
-      name: { type: DataTypes.STRING(60), allowNull: false },
-      query: { type: DataTypes.JSONB, allowNull: false },
-      createdAt: { type: DataTypes.DATE, allowNull: false, defaultValue: dbNow() },
+      id: appUuidKey(),
+      name: required(DataTypes.STRING(60)),
+      query: required(DataTypes.JSONB),
+      createdAt: stampNow(),
     },
     { sequelize, modelName: 'SavedFilter', tableName: 'saved_filters', underscored: true, timestamps: false },
   )
   DeskSettingsModel.init(
     {
       id: { type: DataTypes.SMALLINT, primaryKey: true, defaultValue: 1 },
-      firstResponseHours: { type: DataTypes.DOUBLE, allowNull: false, defaultValue: 24 },
-      resolutionHours: { type: DataTypes.DOUBLE, allowNull: false, defaultValue: 120 },
-      warnAtPercent: { type: DataTypes.INTEGER, allowNull: false, defaultValue: 75 },
-      timeZone: { type: DataTypes.STRING(64), allowNull: true },
-      week: { type: DataTypes.JSONB, allowNull: true },
-      updatedAt: { type: DataTypes.DATE, allowNull: true },
+      firstResponseHours: required(DataTypes.DOUBLE, 24),
+      resolutionHours: required(DataTypes.DOUBLE, 120),
+      warnAtPercent: required(DataTypes.INTEGER, 75),
+      timeZone: optional(DataTypes.STRING(64)),
+      week: optional(DataTypes.JSONB),
+      updatedAt: maybeAt(),
     },
     { sequelize, modelName: 'DeskSettings', tableName: 'desk_settings', underscored: true, timestamps: false },
   )

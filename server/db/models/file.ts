@@ -3,7 +3,7 @@ import type { FileKind } from '../../../shared/schemas/case'
 import type { UserModel } from './user'
 import type { CaseModel } from './case'
 import type { MessageModel } from './message'
-import { dbNow } from './now'
+import { appUuidKey, optional, required, stampNow } from '../columns'
 
 export type AnalysisStatus = 'queued' | 'running' | 'done' | 'failed'
 
@@ -29,17 +29,17 @@ export class FileModel extends Model<InferAttributes<FileModel>, InferCreationAt
 export function initFiles(sequelize: Sequelize) {
   FileModel.init(
     {
-      id: { type: DataTypes.UUID, primaryKey: true, defaultValue: DataTypes.UUIDV4 },
-      kind: { type: DataTypes.STRING(20), allowNull: false },
-      originalName: { type: DataTypes.STRING(255), allowNull: false },
-      mime: { type: DataTypes.STRING(100), allowNull: false },
-      size: { type: DataTypes.BIGINT, allowNull: false },
-      storageKey: { type: DataTypes.STRING(255), allowNull: false },
-      thumbKey: { type: DataTypes.STRING(255), allowNull: true },
-      analysisStatus: { type: DataTypes.STRING(10), allowNull: true },
-      analysis: { type: DataTypes.JSONB, allowNull: true },
-      analysisError: { type: DataTypes.TEXT, allowNull: true },
-      createdAt: { type: DataTypes.DATE, allowNull: false, defaultValue: dbNow() },
+      id: appUuidKey(),
+      kind: required(DataTypes.STRING(20)),
+      originalName: required(DataTypes.STRING(255)),
+      mime: required(DataTypes.STRING(100)),
+      size: required(DataTypes.BIGINT),
+      storageKey: required(DataTypes.STRING(255)),
+      thumbKey: optional(DataTypes.STRING(255)),
+      analysisStatus: optional(DataTypes.STRING(10)),
+      analysis: optional(DataTypes.JSONB),
+      analysisError: optional(DataTypes.TEXT),
+      createdAt: stampNow(),
     },
     { sequelize, modelName: 'File', tableName: 'files', underscored: true, timestamps: false },
   )

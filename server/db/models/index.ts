@@ -3,7 +3,7 @@
  * and the visibility scopes declared once here. Call `models()`; it (re)binds the models when the
  * Sequelize instance changed (tests and the bench close and reopen it).
  */
-import { Op, col, literal, where, type Sequelize } from 'sequelize'
+import { Op, col, literal, where, type BelongsToOptions, type Model, type ModelStatic, type Sequelize } from 'sequelize'
 import { db } from '../sequelize'
 import { UserModel, initUser } from './user'
 import { RoomModel, RoomRevisionModel, initRooms } from './room'
@@ -11,7 +11,7 @@ import { CaseModel, CaseEventModel, CaseRatingModel, TriageSnapshotModel, initCa
 import { MessageModel, initMessages } from './message'
 import { FileModel, initFiles } from './file'
 import { TreatmentPlanModel, initPlans } from './plan'
-import { EmailOutboxModel, DevMailboxModel, InboundEmailLogModel, initMail } from './mail'
+import { EmailOutboxModel, DevMailboxModel, InboundEmailLogModel, InboundEmailReceiptModel, initMail } from './mail'
 import { ReplySnippetModel, SavedFilterModel, DeskSettingsModel, initDesk } from './desk'
 import { TeamInvitationModel, AuditLogModel, PasswordResetTokenModel, SessionModel, initTeam } from './team'
 import { RateLimitHitModel, initRateLimit } from './rate-limit'
@@ -20,7 +20,7 @@ import { sharedWithListener, type Audience } from '../../data/visibility'
 export {
   UserModel, RoomModel, RoomRevisionModel, CaseModel, CaseEventModel, CaseRatingModel, TriageSnapshotModel, MessageModel, FileModel,
   TreatmentPlanModel, EmailOutboxModel, DevMailboxModel, InboundEmailLogModel, ReplySnippetModel, SavedFilterModel, DeskSettingsModel,
-  TeamInvitationModel, AuditLogModel, PasswordResetTokenModel, SessionModel, RateLimitHitModel,
+  TeamInvitationModel, AuditLogModel, PasswordResetTokenModel, SessionModel, RateLimitHitModel, InboundEmailReceiptModel,
 }
 
 // Built on first use: user.ts imports this module back (for `userModel()`), so the classes may not exist yet at load time.
@@ -29,7 +29,7 @@ const build = () => ({
   TriageSnapshot: TriageSnapshotModel, Message: MessageModel, File: FileModel, TreatmentPlan: TreatmentPlanModel,
   EmailOutbox: EmailOutboxModel, DevMailbox: DevMailboxModel, InboundEmailLog: InboundEmailLogModel, ReplySnippet: ReplySnippetModel,
   SavedFilter: SavedFilterModel, DeskSettings: DeskSettingsModel, TeamInvitation: TeamInvitationModel, AuditLog: AuditLogModel, PasswordResetToken: PasswordResetTokenModel, Session: SessionModel,
-  RateLimitHit: RateLimitHitModel,
+  RateLimitHit: RateLimitHitModel, InboundEmailReceipt: InboundEmailReceiptModel,
 })
 export type Models = ReturnType<typeof build>
 let all: Models
@@ -58,70 +58,75 @@ export function models(): Models {
   return all
 }
 
-/** Foreign keys by attribute name (the column is its snake_case twin); `allowNull: false` where the column is NOT NULL. */
-const fk = (name: string, required = false) => ({ foreignKey: { name, allowNull: !required } })
-
-function associate() {
-  const { User, Room, RoomRevision, Case, CaseEvent, CaseRating, TriageSnapshot, Message, File, TreatmentPlan } = all
-
-  User.hasMany(Room, { as: 'rooms', ...fk('ownerId', true) })
-  Room.belongsTo(User, { as: 'owner', ...fk('ownerId', true) })
-  Room.hasMany(RoomRevision, { as: 'revisions', ...fk('roomId', true) })
-  RoomRevision.belongsTo(Room, { as: 'room', ...fk('roomId', true) })
+/**
+ * Every association, in the order they are declared (the order the foreign-key attributes are added in):
+ * [model, kind, target, alias, foreign key by attribute name (the column is its snake_case twin) or the
+ * options in full, NOT NULL]. A foreign key given by name gets `allowNull: false` where the column is NOT NULL.
+ */
+type Link = [keyof Models, 'belongsTo' | 'hasMany' | 'hasOne', keyof Models, string, string | BelongsToOptions, true?]
+const links: Link[] = [
+  ['User', 'hasMany', 'Room', 'rooms', 'ownerId', true],
+  ['Room', 'belongsTo', 'User', 'owner', 'ownerId', true],
+  ['Room', 'hasMany', 'RoomRevision', 'revisions', 'roomId', true],
+  ['RoomRevision', 'belongsTo', 'Room', 'room', 'roomId', true],
   // The current revision: (room_id, current_revision); the `withCurrent` scope gives the join condition.
-  Room.hasOne(RoomRevision, { as: 'current', foreignKey: 'roomId', constraints: false })
-  RoomRevision.belongsTo(User, { as: 'author', ...fk('createdBy') })
-
-  Case.belongsTo(User, { as: 'listener', ...fk('listenerId', true) })
-  Case.belongsTo(User, { as: 'assignee', ...fk('assigneeId') })
-  Case.belongsTo(Room, { as: 'room', ...fk('roomId', true) })
+  ['Room', 'hasOne', 'RoomRevision', 'current', { foreignKey: 'roomId', constraints: false }],
+  ['RoomRevision', 'belongsTo', 'User', 'author', 'createdBy'],
+  ['Case', 'belongsTo', 'User', 'listener', 'listenerId', true],
+  ['Case', 'belongsTo', 'User', 'assignee', 'assigneeId'],
+  ['Case', 'belongsTo', 'Room', 'room', 'roomId', true],
   // The room revision a case is about: (room_id, room_revision). Sequelize has no composite keys, so
   // the association names the target and the `withRoom` scope states the join condition with `on`.
-  Case.belongsTo(RoomRevision, { as: 'revision', foreignKey: 'roomId', targetKey: 'roomId', constraints: false })
-  User.hasMany(Case, { as: 'cases', ...fk('listenerId', true) })
-
-  Case.hasMany(Message, { as: 'messages', ...fk('caseId', true) })
-  Message.belongsTo(Case, { as: 'case', ...fk('caseId', true) })
-  Message.belongsTo(User, { as: 'author', ...fk('authorId') })
-
-  Case.hasMany(File, { as: 'files', ...fk('caseId', true) })
-  File.belongsTo(Case, { as: 'case', ...fk('caseId', true) })
-  File.belongsTo(User, { as: 'uploader', ...fk('uploaderId') })
-  Message.hasMany(File, { as: 'files', ...fk('messageId') })
-  File.belongsTo(Message, { as: 'message', ...fk('messageId') })
-
-  Case.hasMany(CaseEvent, { as: 'events', ...fk('caseId', true) })
-  CaseEvent.belongsTo(Case, { as: 'case', ...fk('caseId', true) })
-  CaseEvent.belongsTo(User, { as: 'actor', ...fk('actorId') })
-
+  ['Case', 'belongsTo', 'RoomRevision', 'revision', { foreignKey: 'roomId', targetKey: 'roomId', constraints: false }],
+  ['User', 'hasMany', 'Case', 'cases', 'listenerId', true],
+  ['Case', 'hasMany', 'Message', 'messages', 'caseId', true],
+  ['Message', 'belongsTo', 'Case', 'case', 'caseId', true],
+  ['Message', 'belongsTo', 'User', 'author', 'authorId'],
+  ['Case', 'hasMany', 'File', 'files', 'caseId', true],
+  ['File', 'belongsTo', 'Case', 'case', 'caseId', true],
+  ['File', 'belongsTo', 'User', 'uploader', 'uploaderId'],
+  ['Message', 'hasMany', 'File', 'files', 'messageId'],
+  ['File', 'belongsTo', 'Message', 'message', 'messageId'],
+  ['Case', 'hasMany', 'CaseEvent', 'events', 'caseId', true],
+  ['CaseEvent', 'belongsTo', 'Case', 'case', 'caseId', true],
+  ['CaseEvent', 'belongsTo', 'User', 'actor', 'actorId'],
   // case_ratings' primary key is case_id: a case has at most one rating.
-  Case.hasOne(CaseRating, { as: 'rating', ...fk('caseId', true) })
-  CaseRating.belongsTo(Case, { as: 'case', ...fk('caseId', true) })
-  CaseRating.belongsTo(User, { as: 'listener', ...fk('listenerId', true) })
+  ['Case', 'hasOne', 'CaseRating', 'rating', 'caseId', true],
+  ['CaseRating', 'belongsTo', 'Case', 'case', 'caseId', true],
+  ['CaseRating', 'belongsTo', 'User', 'listener', 'listenerId', true],
+  ['Case', 'hasMany', 'TreatmentPlan', 'plans', 'caseId', true],
+  ['TreatmentPlan', 'belongsTo', 'Case', 'case', 'caseId', true],
+  ['TreatmentPlan', 'belongsTo', 'Room', 'room', 'roomId', true],
+  ['TreatmentPlan', 'belongsTo', 'User', 'creator', 'createdBy'],
+  ['TreatmentPlan', 'belongsTo', 'User', 'sender', 'sentBy'],
+  ['Case', 'hasMany', 'TriageSnapshot', 'triages', 'caseId', true],
+  ['TriageSnapshot', 'belongsTo', 'Case', 'case', 'caseId', true],
+  ['EmailOutbox', 'belongsTo', 'User', 'recipient', 'toUserId'],
+  ['EmailOutbox', 'belongsTo', 'Case', 'case', 'caseId'],
+  ['InboundEmailLog', 'belongsTo', 'Case', 'case', 'caseId'],
+  ['InboundEmailReceipt', 'belongsTo', 'Case', 'case', 'caseId', true],
+  ['InboundEmailReceipt', 'belongsTo', 'Message', 'message', 'messageId'],
+  ['ReplySnippet', 'belongsTo', 'User', 'author', 'createdBy'],
+  ['User', 'hasMany', 'SavedFilter', 'savedFilters', 'userId', true],
+  ['SavedFilter', 'belongsTo', 'User', 'owner', 'userId', true],
+  ['DeskSettings', 'belongsTo', 'User', 'editor', 'updatedBy'],
+  ['TeamInvitation', 'belongsTo', 'User', 'inviter', 'invitedBy'],
+  ['TeamInvitation', 'belongsTo', 'User', 'acceptedUser', 'acceptedUserId'],
+  ['AuditLog', 'belongsTo', 'User', 'actor', 'actorId'],
+  ['AuditLog', 'belongsTo', 'User', 'targetUser', 'targetUserId'],
+  ['User', 'hasMany', 'PasswordResetToken', 'passwordResetTokens', 'userId', true],
+  ['PasswordResetToken', 'belongsTo', 'User', 'user', 'userId', true],
+  ['Session', 'belongsTo', 'User', 'user', { foreignKey: 'userId', constraints: false }],
+]
 
-  Case.hasMany(TreatmentPlan, { as: 'plans', ...fk('caseId', true) })
-  TreatmentPlan.belongsTo(Case, { as: 'case', ...fk('caseId', true) })
-  TreatmentPlan.belongsTo(Room, { as: 'room', ...fk('roomId', true) })
-  TreatmentPlan.belongsTo(User, { as: 'creator', ...fk('createdBy') })
-  TreatmentPlan.belongsTo(User, { as: 'sender', ...fk('sentBy') })
-
-  Case.hasMany(TriageSnapshot, { as: 'triages', ...fk('caseId', true) })
-  TriageSnapshot.belongsTo(Case, { as: 'case', ...fk('caseId', true) })
-
-  all.EmailOutbox.belongsTo(User, { as: 'recipient', ...fk('toUserId') })
-  all.EmailOutbox.belongsTo(Case, { as: 'case', ...fk('caseId') })
-  all.InboundEmailLog.belongsTo(Case, { as: 'case', ...fk('caseId') })
-  all.ReplySnippet.belongsTo(User, { as: 'author', ...fk('createdBy') })
-  User.hasMany(all.SavedFilter, { as: 'savedFilters', ...fk('userId', true) })
-  all.SavedFilter.belongsTo(User, { as: 'owner', ...fk('userId', true) })
-  all.DeskSettings.belongsTo(User, { as: 'editor', ...fk('updatedBy') })
-  all.TeamInvitation.belongsTo(User, { as: 'inviter', ...fk('invitedBy') })
-  all.TeamInvitation.belongsTo(User, { as: 'acceptedUser', ...fk('acceptedUserId') })
-  all.AuditLog.belongsTo(User, { as: 'actor', ...fk('actorId') })
-  all.AuditLog.belongsTo(User, { as: 'targetUser', ...fk('targetUserId') })
-  User.hasMany(all.PasswordResetToken, { as: 'passwordResetTokens', ...fk('userId', true) })
-  all.PasswordResetToken.belongsTo(User, { as: 'user', ...fk('userId', true) })
-  all.Session.belongsTo(User, { as: 'user', foreignKey: 'userId', constraints: false })
+function associate() {
+  for (const [name, kind, targetName, as, key, required = false] of links) {
+    const [source, target] = [all[name], all[targetName]] as unknown as ModelStatic<Model>[]
+    const options = typeof key === 'string' ? { as, foreignKey: { name: key, allowNull: !required } } : { as, ...key }
+    if (kind === 'belongsTo') source.belongsTo(target, options)
+    else if (kind === 'hasMany') source.hasMany(target, options)
+    else source.hasOne(target, options)
+  }
 }
 
 const person = ['id', 'name']

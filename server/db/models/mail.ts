@@ -1,7 +1,7 @@
 import { DataTypes, Model, type CreationOptional, type ForeignKey, type InferAttributes, type InferCreationAttributes, type Sequelize } from 'sequelize'
 import type { UserModel } from './user'
 import type { CaseModel } from './case'
-import { dbNow } from './now'
+import { maybeAt, optional, required, serialKey, stampNow, timestamps } from '../columns'
 
 /** An e-mail waiting for (or done with) delivery; written in the same transaction as the change it announces. */
 export class EmailOutboxModel extends Model<InferAttributes<EmailOutboxModel>, InferCreationAttributes<EmailOutboxModel>> {
@@ -52,55 +52,76 @@ export class InboundEmailLogModel extends Model<InferAttributes<InboundEmailLogM
   declare createdAt: CreationOptional<Date>
 }
 
+/**
+ * An e-mail a case has taken in (migration 0100), by its identity `messageKey` (../../mail/inbound-identity.ts):
+ * unique per case, so the same e-mail delivered again changes nothing.
+ */
+export class InboundEmailReceiptModel extends Model<InferAttributes<InboundEmailReceiptModel>, InferCreationAttributes<InboundEmailReceiptModel>> {
+  declare id: CreationOptional<string>
+  declare caseId: ForeignKey<CaseModel['id']>
+  declare messageKey: string
+  declare messageId: ForeignKey<string> | null
+  declare outcome: 'posted' | 'sender_mismatch' | 'sender_unverified'
+  declare receivedAt: CreationOptional<Date>
+}
+
 export function initMail(sequelize: Sequelize) {
   EmailOutboxModel.init(
     {
       id: { type: DataTypes.UUID, primaryKey: true },
-      toAddress: { type: DataTypes.STRING(254), allowNull: false },
-      kind: { type: DataTypes.STRING(40), allowNull: false },
-      subject: { type: DataTypes.STRING(300), allowNull: false },
-      html: { type: DataTypes.TEXT, allowNull: false },
-      text: { type: DataTypes.TEXT, allowNull: false },
-      replyTo: { type: DataTypes.STRING(254), allowNull: true },
+      toAddress: required(DataTypes.STRING(254)),
+      kind: required(DataTypes.STRING(40)),
+      subject: required(DataTypes.STRING(300)),
+      html: required(DataTypes.TEXT),
+      text: required(DataTypes.TEXT),
+      replyTo: optional(DataTypes.STRING(254)),
       status: { type: DataTypes.STRING(10), allowNull: false, defaultValue: 'queued', validate: { isIn: [['queued', 'sent', 'failed']] } },
-      attempts: { type: DataTypes.INTEGER, allowNull: false, defaultValue: 0 },
-      lastError: { type: DataTypes.TEXT, allowNull: true },
-      nextAttemptAt: { type: DataTypes.DATE, allowNull: false, defaultValue: dbNow() },
-      sentAt: { type: DataTypes.DATE, allowNull: true },
+      attempts: required(DataTypes.INTEGER, 0),
+      lastError: optional(DataTypes.TEXT),
+      nextAttemptAt: stampNow(),
+      sentAt: maybeAt(),
       messageId: { type: DataTypes.STRING(255), allowNull: false, unique: true },
-      jobId: { type: DataTypes.UUID, allowNull: true },
-      smtpResponse: { type: DataTypes.TEXT, allowNull: true },
-      createdAt: { type: DataTypes.DATE, allowNull: false, defaultValue: dbNow() },
-      updatedAt: { type: DataTypes.DATE, allowNull: false, defaultValue: dbNow() },
+      jobId: optional(DataTypes.UUID),
+      smtpResponse: optional(DataTypes.TEXT),
+      ...timestamps(),
     },
     { sequelize, modelName: 'EmailOutbox', tableName: 'email_outbox', underscored: true, timestamps: false },
   )
   DevMailboxModel.init(
     {
-      id: { type: DataTypes.BIGINT, primaryKey: true, autoIncrement: true },
-      messageId: { type: DataTypes.STRING(255), allowNull: true },
-      envelopeFrom: { type: DataTypes.STRING(254), allowNull: true },
-      envelopeTo: { type: DataTypes.ARRAY(DataTypes.TEXT), allowNull: false, defaultValue: [] },
-      subject: { type: DataTypes.TEXT, allowNull: false, defaultValue: '' },
-      text: { type: DataTypes.TEXT, allowNull: true },
-      html: { type: DataTypes.TEXT, allowNull: true },
-      headers: { type: DataTypes.JSONB, allowNull: false, defaultValue: {} },
-      rawSize: { type: DataTypes.INTEGER, allowNull: false },
-      receivedAt: { type: DataTypes.DATE, allowNull: false, defaultValue: dbNow() },
+      id: serialKey(),
+      messageId: optional(DataTypes.STRING(255)),
+      envelopeFrom: optional(DataTypes.STRING(254)),
+      envelopeTo: required(DataTypes.ARRAY(DataTypes.TEXT), []),
+      subject: required(DataTypes.TEXT, ''),
+      text: optional(DataTypes.TEXT),
+      html: optional(DataTypes.TEXT),
+      headers: required(DataTypes.JSONB, {}),
+      rawSize: required(DataTypes.INTEGER),
+      receivedAt: stampNow(),
     },
     { sequelize, modelName: 'DevMailbox', tableName: 'dev_mailbox', underscored: true, timestamps: false },
   )
   InboundEmailLogModel.init(
     {
-      id: { type: DataTypes.BIGINT, primaryKey: true, autoIncrement: true },
-      via: { type: DataTypes.STRING(10), allowNull: false },
-      status: { type: DataTypes.STRING(10), allowNull: false },
-      reason: { type: DataTypes.STRING(40), allowNull: true },
-      toAddress: { type: DataTypes.TEXT, allowNull: true },
-      fromAddress: { type: DataTypes.TEXT, allowNull: true },
-      subject: { type: DataTypes.TEXT, allowNull: true },
-      createdAt: { type: DataTypes.DATE, allowNull: false, defaultValue: dbNow() },
+      id: serialKey(),
+      via: required(DataTypes.STRING(10)),
+      status: required(DataTypes.STRING(10)),
+      reason: optional(DataTypes.STRING(40)),
+      toAddress: optional(DataTypes.TEXT),
+      fromAddress: optional(DataTypes.TEXT),
+      subject: optional(DataTypes.TEXT),
+      createdAt: stampNow(),
     },
     { sequelize, modelName: 'InboundEmailLog', tableName: 'inbound_email_log', underscored: true, timestamps: false },
+  )
+  InboundEmailReceiptModel.init(
+    {
+      id: { type: DataTypes.UUID, primaryKey: true, defaultValue: DataTypes.UUIDV4 },
+      messageKey: { type: DataTypes.STRING(80), allowNull: false },
+      outcome: { type: DataTypes.STRING(20), allowNull: false, validate: { isIn: [['posted', 'sender_mismatch', 'sender_unverified']] } },
+      receivedAt: { type: DataTypes.DATE, allowNull: false, defaultValue: dbNow() },
+    },
+    { sequelize, modelName: 'InboundEmailReceipt', tableName: 'inbound_email_receipts', underscored: true, timestamps: false },
   )
 }

@@ -2,7 +2,7 @@ import { DataTypes, Model, type CreationOptional, type ForeignKey, type InferAtt
 import type { UserModel } from './user'
 import type { CaseModel } from './case'
 import type { FileModel } from './file'
-import { dbNow } from './now'
+import { appUuidKey, required, stampNow } from '../columns'
 
 export class MessageModel extends Model<InferAttributes<MessageModel>, InferCreationAttributes<MessageModel>> {
   declare id: CreationOptional<string>
@@ -19,11 +19,11 @@ export class MessageModel extends Model<InferAttributes<MessageModel>, InferCrea
 export function initMessages(sequelize: Sequelize) {
   MessageModel.init(
     {
-      id: { type: DataTypes.UUID, primaryKey: true, defaultValue: DataTypes.UUIDV4 },
-      body: { type: DataTypes.TEXT, allowNull: false },
-      internal: { type: DataTypes.BOOLEAN, allowNull: false, defaultValue: false },
-      source: { type: DataTypes.STRING(10), allowNull: false, defaultValue: 'app' },
-      createdAt: { type: DataTypes.DATE, allowNull: false, defaultValue: dbNow() },
+      id: appUuidKey(),
+      body: required(DataTypes.TEXT),
+      internal: required(DataTypes.BOOLEAN, false),
+      source: required(DataTypes.STRING(10), 'app'),
+      createdAt: stampNow(),
     },
     // `search` (a generated tsvector) is left out: only the queue's full-text SQL reads it.
     { sequelize, modelName: 'Message', tableName: 'messages', underscored: true, timestamps: false },

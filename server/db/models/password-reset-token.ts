@@ -1,5 +1,6 @@
 import { DataTypes, Model, type InferAttributes, type InferCreationAttributes, type CreationOptional } from 'sequelize'
 import { db } from '../sequelize'
+import { appUuidKey, maybeAt, required } from '../columns'
 
 /** A one-time password-reset link (migration 0051); the token itself is never stored, only its SHA-256. */
 export class PasswordResetTokenModel extends Model<InferAttributes<PasswordResetTokenModel>, InferCreationAttributes<PasswordResetTokenModel>> {
@@ -16,12 +17,12 @@ export function passwordResetTokenModel(): typeof PasswordResetTokenModel {
   if (!ready) {
     PasswordResetTokenModel.init(
       {
-        id: { type: DataTypes.UUID, primaryKey: true, defaultValue: DataTypes.UUIDV4 },
-        userId: { type: DataTypes.UUID, allowNull: false },
+        id: appUuidKey(),
+        userId: required(DataTypes.UUID),
         tokenHash: { type: DataTypes.CHAR(64), allowNull: false, unique: true },
         createdAt: DataTypes.DATE,
-        expiresAt: { type: DataTypes.DATE, allowNull: false },
-        spentAt: { type: DataTypes.DATE, allowNull: true },
+        expiresAt: required(DataTypes.DATE),
+        spentAt: maybeAt(),
       },
       { sequelize: db(), tableName: 'password_reset_tokens', underscored: true, updatedAt: false },
     )

@@ -4,7 +4,7 @@ import type { PlanPredictions } from '../../../shared/plan'
 import type { UserModel } from './user'
 import type { CaseModel } from './case'
 import type { RoomModel } from './room'
-import { dbNow } from './now'
+import { appUuidKey, maybeAt, required, stampNow } from '../columns'
 
 /** One saved version of a case's treatment plan; a trigger (migration 0020) keeps its content unchanged. */
 export class TreatmentPlanModel extends Model<InferAttributes<TreatmentPlanModel>, InferCreationAttributes<TreatmentPlanModel>> {
@@ -27,14 +27,14 @@ export class TreatmentPlanModel extends Model<InferAttributes<TreatmentPlanModel
 export function initPlans(sequelize: Sequelize) {
   TreatmentPlanModel.init(
     {
-      id: { type: DataTypes.UUID, primaryKey: true, defaultValue: DataTypes.UUIDV4 },
-      version: { type: DataTypes.INTEGER, allowNull: false },
-      roomRevision: { type: DataTypes.INTEGER, allowNull: false },
-      body: { type: DataTypes.JSONB, allowNull: false },
-      predictions: { type: DataTypes.JSONB, allowNull: false },
-      engineVersion: { type: DataTypes.STRING(40), allowNull: false },
-      createdAt: { type: DataTypes.DATE, allowNull: false, defaultValue: dbNow() },
-      sentAt: { type: DataTypes.DATE, allowNull: true },
+      id: appUuidKey(),
+      version: required(DataTypes.INTEGER),
+      roomRevision: required(DataTypes.INTEGER),
+      body: required(DataTypes.JSONB),
+      predictions: required(DataTypes.JSONB),
+      engineVersion: required(DataTypes.STRING(40)),
+      createdAt: stampNow(),
+      sentAt: maybeAt(),
     },
     { sequelize, modelName: 'TreatmentPlan', tableName: 'treatment_plans', underscored: true, timestamps: false },
   )

@@ -1,7 +1,7 @@
 import { DataTypes, Model, type CreationOptional, type ForeignKey, type InferAttributes, type InferCreationAttributes, type NonAttribute, type Sequelize } from 'sequelize'
 import type { Room } from '../../../shared/schemas/room'
 import type { UserModel } from './user'
-import { dbNow } from './now'
+import { appUuidKey, required, stampNow, timestamps } from '../columns'
 
 export class RoomModel extends Model<InferAttributes<RoomModel>, InferCreationAttributes<RoomModel>> {
   declare id: CreationOptional<string>
@@ -27,11 +27,10 @@ export class RoomRevisionModel extends Model<InferAttributes<RoomRevisionModel>,
 export function initRooms(sequelize: Sequelize) {
   RoomModel.init(
     {
-      id: { type: DataTypes.UUID, primaryKey: true, defaultValue: DataTypes.UUIDV4 },
-      name: { type: DataTypes.STRING(120), allowNull: false },
-      currentRevision: { type: DataTypes.INTEGER, allowNull: false, defaultValue: 1 },
-      createdAt: { type: DataTypes.DATE, allowNull: false, defaultValue: dbNow() },
-      updatedAt: { type: DataTypes.DATE, allowNull: false, defaultValue: dbNow() },
+      id: appUuidKey(),
+      name: required(DataTypes.STRING(120)),
+      currentRevision: required(DataTypes.INTEGER, 1),
+      ...timestamps(),
     },
     { sequelize, modelName: 'Room', tableName: 'rooms', underscored: true, timestamps: false },
   )
@@ -39,8 +38,8 @@ export function initRooms(sequelize: Sequelize) {
     {
       roomId: { type: DataTypes.UUID, primaryKey: true },
       revision: { type: DataTypes.INTEGER, primaryKey: true },
-      body: { type: DataTypes.JSONB, allowNull: false },
-      createdAt: { type: DataTypes.DATE, allowNull: false, defaultValue: dbNow() },
+      body: required(DataTypes.JSONB),
+      createdAt: stampNow(),
     },
     { sequelize, modelName: 'RoomRevision', tableName: 'room_revisions', underscored: true, timestamps: false },
   )

@@ -1,6 +1,6 @@
 import { DataTypes, Model, type CreationOptional, type ForeignKey, type InferAttributes, type InferCreationAttributes, type NonAttribute, type Sequelize } from 'sequelize'
 import type { UserModel } from './user'
-import { dbNow } from './now'
+import { appUuidKey, maybeAt, optional, required, serialKey, stampNow } from '../columns'
 
 /** A one-time invitation to the team; only a SHA-256 of the token is kept. */
 export class TeamInvitationModel extends Model<InferAttributes<TeamInvitationModel>, InferCreationAttributes<TeamInvitationModel>> {
@@ -52,45 +52,45 @@ export class SessionModel extends Model<InferAttributes<SessionModel>, InferCrea
 export function initTeam(sequelize: Sequelize) {
   TeamInvitationModel.init(
     {
-      id: { type: DataTypes.UUID, primaryKey: true, defaultValue: DataTypes.UUIDV4 },
-      email: { type: DataTypes.STRING(254), allowNull: false },
-      name: { type: DataTypes.STRING(120), allowNull: false },
-      role: { type: DataTypes.ENUM('listener', 'advisor', 'supervisor'), allowNull: false },
+      id: appUuidKey(),
+      email: required(DataTypes.STRING(254)),
+      name: required(DataTypes.STRING(120)),
+      role: required(DataTypes.ENUM('listener', 'advisor', 'supervisor')),
       tokenHash: { type: DataTypes.CHAR(64), allowNull: false, unique: true },
-      createdAt: { type: DataTypes.DATE, allowNull: false, defaultValue: dbNow() },
-      expiresAt: { type: DataTypes.DATE, allowNull: false },
-      acceptedAt: { type: DataTypes.DATE, allowNull: true },
-      revokedAt: { type: DataTypes.DATE, allowNull: true },
+      createdAt: stampNow(),
+      expiresAt: required(DataTypes.DATE),
+      acceptedAt: maybeAt(),
+      revokedAt: maybeAt(),
     },
     { sequelize, modelName: 'TeamInvitation', tableName: 'team_invitations', underscored: true, timestamps: false },
   )
   AuditLogModel.init(
     {
-      id: { type: DataTypes.BIGINT, primaryKey: true, autoIncrement: true },
-      action: { type: DataTypes.STRING(40), allowNull: false },
-      targetName: { type: DataTypes.STRING(120), allowNull: true },
-      targetEmail: { type: DataTypes.STRING(254), allowNull: true },
-      details: { type: DataTypes.JSONB, allowNull: false, defaultValue: {} },
-      createdAt: { type: DataTypes.DATE, allowNull: false, defaultValue: dbNow() },
+      id: serialKey(),
+      action: required(DataTypes.STRING(40)),
+      targetName: optional(DataTypes.STRING(120)),
+      targetEmail: optional(DataTypes.STRING(254)),
+      details: required(DataTypes.JSONB, {}),
+      createdAt: stampNow(),
     },
     { sequelize, modelName: 'AuditLog', tableName: 'audit_log', underscored: true, timestamps: false },
   )
   PasswordResetTokenModel.init(
     {
-      id: { type: DataTypes.UUID, primaryKey: true, defaultValue: DataTypes.UUIDV4 },
+      id: appUuidKey(),
       tokenHash: { type: DataTypes.CHAR(64), allowNull: false, unique: true },
-      createdAt: { type: DataTypes.DATE, allowNull: false, defaultValue: dbNow() },
-      expiresAt: { type: DataTypes.DATE, allowNull: false },
-      spentAt: { type: DataTypes.DATE, allowNull: true },
+      createdAt: stampNow(),
+      expiresAt: required(DataTypes.DATE),
+      spentAt: maybeAt(),
     },
     { sequelize, modelName: 'PasswordResetToken', tableName: 'password_reset_tokens', underscored: true, timestamps: false },
   )
   SessionModel.init(
     {
       sid: { type: DataTypes.STRING, primaryKey: true },
-      sess: { type: DataTypes.JSON, allowNull: false },
-      expire: { type: DataTypes.DATE(6), allowNull: false },
-      userId: { type: DataTypes.UUID, allowNull: true },
+      sess: required(DataTypes.JSON),
+      expire: required(DataTypes.DATE(6)),
+      userId: optional(DataTypes.UUID),
     },
     { sequelize, modelName: 'Session', tableName: 'session', underscored: true, timestamps: false },
   )

@@ -1,6 +1,7 @@
 import { DataTypes, Model, type InferAttributes, type InferCreationAttributes, type CreationOptional, type Sequelize } from 'sequelize'
 import type { Role } from '../../../shared/schemas/auth'
 import { models } from './index'
+import { appUuidKey, optional, required } from '../columns'
 
 export class UserModel extends Model<InferAttributes<UserModel>, InferCreationAttributes<UserModel>> {
   declare id: CreationOptional<string>
@@ -18,14 +19,14 @@ export class UserModel extends Model<InferAttributes<UserModel>, InferCreationAt
 export function initUser(sequelize: Sequelize) {
   UserModel.init(
     {
-      id: { type: DataTypes.UUID, primaryKey: true, defaultValue: DataTypes.UUIDV4 },
-      email: { type: DataTypes.STRING(254), allowNull: false },
-      name: { type: DataTypes.STRING(120), allowNull: false },
-      role: { type: DataTypes.ENUM('listener', 'advisor', 'supervisor'), allowNull: false },
-      passwordHash: { type: DataTypes.STRING(100), allowNull: true },
-      active: { type: DataTypes.BOOLEAN, allowNull: false, defaultValue: true },
-      units: { type: DataTypes.ENUM('metric', 'imperial'), allowNull: false, defaultValue: 'metric' },
-      emailOptional: { type: DataTypes.BOOLEAN, allowNull: false, defaultValue: true },
+      id: appUuidKey(),
+      email: required(DataTypes.STRING(254)),
+      name: required(DataTypes.STRING(120)),
+      role: required(DataTypes.ENUM('listener', 'advisor', 'supervisor')),
+      passwordHash: optional(DataTypes.STRING(100)),
+      active: required(DataTypes.BOOLEAN, true),
+      units: required(DataTypes.ENUM('metric', 'imperial'), 'metric'),
+      emailOptional: required(DataTypes.BOOLEAN, true),
       createdAt: DataTypes.DATE,
       updatedAt: DataTypes.DATE,
     },
