@@ -1,5 +1,5 @@
 import { DataTypes, type QueryInterface } from 'sequelize'
-import { ref, stamp, uuidKey } from '../migration-columns'
+import { ref, stamp, uuidKey } from '../columns'
 
 /**
  * One row per e-mail a case has taken in (posted as the listener's message, or held for the team), keyed

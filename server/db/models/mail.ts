@@ -120,7 +120,7 @@ export function initMail(sequelize: Sequelize) {
       id: { type: DataTypes.UUID, primaryKey: true, defaultValue: DataTypes.UUIDV4 },
       messageKey: { type: DataTypes.STRING(80), allowNull: false },
       outcome: { type: DataTypes.STRING(20), allowNull: false, validate: { isIn: [['posted', 'sender_mismatch', 'sender_unverified']] } },
-      receivedAt: { type: DataTypes.DATE, allowNull: false, defaultValue: dbNow() },
+      receivedAt: stampNow(),
     },
     { sequelize, modelName: 'InboundEmailReceipt', tableName: 'inbound_email_receipts', underscored: true, timestamps: false },
   )
