@@ -9,10 +9,18 @@ import { screenshotDir, signInAs, useProduct } from '../helpers/browser'
 import { makeUser } from '../helpers/api'
 import { openCase } from '../helpers/cases'
 import { httpClient } from '../helpers/sockets'
-import { responseText } from '../unit/uploads/make-files'
 import { addPulse, exponentialDecay, writeWav } from '../unit/signal/synthetic'
 
 const app = useProduct()
+
+/**
+ * A frequency response in Roomwright's text format (FORMAT.md: a header line naming frequency_hz and
+ * spl_db, then one frequency a line), 20 Hz to 20 kHz in twelfth-octave steps, so the analysis reads it.
+ */
+function frequencyResponse(): Buffer {
+  const rows = Array.from({ length: 120 }, (_, i) => `${(20 * 2 ** (i / 12)).toFixed(3)}\t${(75 + 6 * Math.sin(i / 5)).toFixed(2)}`)
+  return Buffer.from(['# desk seat, left speaker', 'frequency_hz\tspl_db', ...rows].join('\n') + '\n', 'utf8')
+}
 
 /** A 2 s, 48 kHz synthetic impulse response (T = 0.5 s) as a 24-bit WAV, mono or stereo (left, right). */
 function impulseResponse(channels: 1 | 2): Buffer {
@@ -40,7 +48,7 @@ describe("the listener's measurement hint follows the files", () => {
     const hint = page.getByTestId('measurement-hint')
     await hint.waitFor()
     const state = () => hint.getAttribute('data-state')
-    const text = async () => (await hint.textContent())?.replace(/\s+/g, ' ').trim() ?? ''
+    const text = async () => (await hint.innerText()).replace(/\s+/g, ' ').trim()
     const before = await text()
     expect(await state()).toBe('none')
     expect(before).toMatch(/impulse response of each speaker/)
@@ -50,8 +58,8 @@ describe("the listener's measurement hint follows the files", () => {
     page.on('framenavigated', (f) => f === page.mainFrame() && reloads.push(f.url()))
 
     // a frequency response from this page: received, and an impulse response is still worth sending
-    await page.getByTestId('upload-input').setInputFiles([{ name: 'desk-seat_left.txt', mimeType: 'text/plain', buffer: responseText() }])
-    await expect.poll(text, { timeout: 30_000 }).toMatch(/^Received: 1 measurement\b/)
+    await page.getByTestId('upload-input').setInputFiles([{ name: 'desk-seat_left.txt', mimeType: 'text/plain', buffer: frequencyResponse() }])
+    await expect.poll(text, { timeout: 30_000 }).toMatch(/^Received: 1 measurement \(1 analysed\)/)
     await expect.poll(state, { timeout: 30_000 }).toBe('partial')
     expect(await text()).toMatch(/Still worth sending: an impulse response as WAV/)
 
@@ -65,7 +73,7 @@ describe("the listener's measurement hint follows the files", () => {
     // and the right one: that is what the advisor needs
     await api.agent.post(`/api/cases/${c.id}/files`).set('X-CSRF-Token', api.csrf).attach('file', impulseResponse(1), 'desk-seat_right.wav').expect(201)
     await expect.poll(state, { timeout: 60_000 }).toBe('enough')
-    expect(await text()).toMatch(/^Received: 3 measurements \(3 analysed\)\. That is what your advisor needs for now/)
+    await expect.poll(text, { timeout: 60_000 }).toMatch(/^Received: 3 measurements \(3 analysed\)\. That is what your advisor needs for now/)
     await hint.scrollIntoViewIfNeeded()
     await page.screenshot({ path: join(screenshotDir(), `measurement-hint-enough-${viewport.width}.png`) })
     expect(reloads, 'the page was not reloaded').toEqual([])
