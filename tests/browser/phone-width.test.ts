@@ -54,6 +54,10 @@ describe('on a 390 px phone no page scrolls sideways', () => {
       for (const path of paths) {
         await page.goto(`${app.server.url}${path}`, { waitUntil: 'networkidle' })
         await page.locator('main').first().waitFor()
+        // the page asked for, not a redirect or the not-found page (which would fit trivially)
+        expect(new URL(page.url()).pathname, path).toBe(path)
+        if (path !== '/no-such-page') expect(await page.getByText('There is nothing at this address').count(), path).toBe(0)
+        if (path.endsWith('/report')) await page.getByTestId('plan-steps').waitFor()
         await page.waitForTimeout(1500) // charts and drawings lay out after the data arrives
         const w = await width(page)
         if (w.scrollWidth > PHONE.width) wide[path.replace(c.id, ':case').replace(room.id, ':room')] = w
