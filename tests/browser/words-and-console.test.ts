@@ -133,6 +133,10 @@ describe('one source of words: the same flag and status read the same on every p
     expect((await row.getByTestId('case-status').textContent())?.trim()).toBe(inReview)
     await row.getByTestId('queue-flags').hover()
     await expect.poll(() => qPage.locator('.v-overlay__content').filter({ hasText: square }).count(), { timeout: 15_000 }).toBeGreaterThan(0)
+    // the queue's flag filter offers the flag under the same name
+    await qPage.getByTestId('queue-flag').click()
+    await expect.poll(() => qPage.getByRole('option', { name: square, exact: true }).count(), { timeout: 15_000 }).toBe(1)
+    await qPage.keyboard.press('Escape')
     await closeQ()
 
     // the supervisor's dashboard: the flag and the status tables use the same names
