@@ -1,25 +1,14 @@
-import { afterAll, describe, expect, it } from 'vitest'
+import { describe, expect, it } from 'vitest'
 import request from 'supertest'
 
 // Two app instances (two nodes) against one database, each with its own limiter objects, as two processes
 // behind a balancer would have. Small budgets here; TRUST_PROXY lets each test speak from its own address.
-process.env.LOGIN_RATE_LIMIT = '4'
-process.env.SIGN_IN_FAILURES_PER_ACCOUNT = '3'
-process.env.SIGN_IN_BACKOFF_MAX_MS = '300'
-process.env.TRUST_PROXY = 'true'
+const { appNodes } = await import('../helpers/nodes')
+const { nodes } = await appNodes({ LOGIN_RATE_LIMIT: '4', SIGN_IN_FAILURES_PER_ACCOUNT: '3', SIGN_IN_BACKOFF_MAX_MS: '300', TRUST_PROXY: 'true' })
 const { makeUser, uniqueEmail } = await import('../helpers/api')
-const { setConfigForTests, loadConfig } = await import('../../server/config')
-setConfigForTests(loadConfig())
-const { createApp } = await import('../../server/app')
 const { models } = await import('../../server/db/models')
 const { sweepRateLimits } = await import('../../server/middleware/rate-limit-store')
-const { closeDb, db } = await import('../../server/db/sequelize')
-
-const nodes = [createApp({ clientDir: false }), createApp({ clientDir: false })]
-afterAll(async () => {
-  for (const n of nodes) await n.close()
-  await closeDb()
-})
+const { db } = await import('../../server/db/sequelize')
 
 async function on(node: 0 | 1, address: string) {
   const agent = request.agent(nodes[node].app)

@@ -4,27 +4,15 @@
  * knows an address must not be able to lock its owner out (OWASP Authentication Cheat Sheet, "Account
  * Lockout"). Small budgets here; TRUST_PROXY lets each request speak from its own address.
  */
-import { afterAll, afterEach, describe, expect, it, vi } from 'vitest'
+import { afterEach, describe, expect, it, vi } from 'vitest'
 import request from 'supertest'
 
-process.env.SIGN_IN_FAILURES_PER_ACCOUNT = '3'
-process.env.LOGIN_RATE_LIMIT = '6'
-// a distinctive cap, so the back-off's timer is told apart from every other timer of the process
-process.env.SIGN_IN_BACKOFF_MAX_MS = '333'
-process.env.TRUST_PROXY = 'true'
+const { appNodes } = await import('../helpers/nodes')
+// a distinctive back-off cap, so the back-off's timer is told apart from every other timer of the process
+const { nodes } = await appNodes({ SIGN_IN_FAILURES_PER_ACCOUNT: '3', LOGIN_RATE_LIMIT: '6', SIGN_IN_BACKOFF_MAX_MS: '333', TRUST_PROXY: 'true' })
 const { makeUser, uniqueEmail } = await import('../helpers/api')
-const { setConfigForTests, loadConfig } = await import('../../server/config')
-setConfigForTests(loadConfig())
-const { createApp } = await import('../../server/app')
 const { signInBackoffMs, SIGN_IN_BACKOFF_BASE_MS } = await import('../../server/auth/session')
-const { closeDb } = await import('../../server/db/sequelize')
-
-const nodes = [createApp({ clientDir: false }), createApp({ clientDir: false })]
 afterEach(() => vi.restoreAllMocks())
-afterAll(async () => {
-  for (const n of nodes) await n.close()
-  await closeDb()
-})
 
 /** A sign-in on one node from one address; with `status`, the answer must have it. */
 async function login(node: 0 | 1, address: string, email: string, password: string, status?: number): Promise<request.Response> {

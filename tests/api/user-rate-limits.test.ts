@@ -4,30 +4,15 @@
  * a balancer, each with its own limiter objects: the counters live in PostgreSQL (rate_limit_hits).
  * Requests here are cheap on purpose: a preview of an empty body answers 400 after the limiter has counted it.
  */
-import { afterAll, describe, expect, it } from 'vitest'
+import { describe, expect, it } from 'vitest'
 import request from 'supertest'
 
-process.env.PREVIEW_RATE_LIMIT = '3'
-process.env.MESSAGE_RATE_LIMIT = '3'
-process.env.SEARCH_RATE_LIMIT = '2'
-process.env.USER_RATE_WINDOW_SECONDS = '600'
+const { appNodes } = await import('../helpers/nodes')
+const { nodes, more } = await appNodes({ PREVIEW_RATE_LIMIT: '3', MESSAGE_RATE_LIMIT: '3', SEARCH_RATE_LIMIT: '2', USER_RATE_WINDOW_SECONDS: '600' })
+// a third node whose window is one second
+const shortWindow = more({ USER_RATE_WINDOW_SECONDS: '1' })
 const { makeUser, clientOf } = await import('../helpers/api')
-const { setConfigForTests, loadConfig } = await import('../../server/config')
-setConfigForTests(loadConfig())
-const { createApp } = await import('../../server/app')
-const { closeDb } = await import('../../server/db/sequelize')
 const { tooManyWords } = await import('../../shared/words/limits')
-
-const nodes = [createApp({ clientDir: false }), createApp({ clientDir: false })]
-// a third node whose window is one second (the limiters read the configuration when the app is built)
-setConfigForTests(loadConfig({ ...process.env, USER_RATE_WINDOW_SECONDS: '1' }))
-const shortWindow = createApp({ clientDir: false })
-setConfigForTests(loadConfig())
-
-afterAll(async () => {
-  for (const n of [...nodes, shortWindow]) await n.close()
-  await closeDb()
-})
 
 const preview = (c: Awaited<ReturnType<typeof clientOf>>) => c.post('/api/rooms/preview', {})
 
