@@ -1,6 +1,7 @@
 import type { ModalResponseOptions, ModalSystem } from './modes'
 import { addSeries, addWeightedRows, buildModalSystem, complexPower, farSeries, modalPower, sourceWeights, spreadDbOfPower } from './modes'
 import type { Point, RoomBox } from './types'
+import { FLAG_THRESHOLDS } from './setup-flags'
 import { assertPointInRoom, assertPositive, assertRoom } from './validate'
 
 export interface PositionSearchOptions extends ModalResponseOptions {
@@ -145,7 +146,10 @@ export function searchPositionsWithSystem(
   const spacing = Math.max(...speakers.map((s) => s.y)) - Math.min(...speakers.map((s) => s.y))
   const minListening = Math.max(1, 0.8 * spacing)
   let seatFrom = clampX(opts.seatFromX ?? Math.min(speakerX + minListening, 0.6 * L))
-  let seatTo = clampX(opts.seatToX ?? L - Math.min(0.25, 0.05 * L))
+  // and never closer to the back wall than the setup check's seat-to-wall distance, so the best seat the
+  // search offers is not one the same triage then flags as too close to the wall behind it
+  let seatTo = clampX(opts.seatToX ?? L - FLAG_THRESHOLDS.seatWallM)
+  if (opts.seatToX === undefined && seatTo <= seatFrom) seatTo = clampX(L - Math.min(0.25, 0.05 * L))
   if (seatTo <= seatFrom) { seatFrom = clampX(speakerX); seatTo = L }
   const centreY = W / 2
   const src = sourceWeights(sys, speakers)

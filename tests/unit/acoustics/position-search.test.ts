@@ -1,5 +1,5 @@
 import { describe, expect, it } from 'vitest'
-import { modalResponse, searchPositions } from '../../../shared/acoustics'
+import { FLAG_THRESHOLDS, modalResponse, searchPositions, setupFlags } from '../../../shared/acoustics'
 import { deepFreeze } from './helpers'
 
 const room = { length: 5.8, width: 4.1, height: 2.5 }
@@ -36,4 +36,25 @@ describe('searchPositions', () => {
     expect(() => searchPositions(deepFreeze({ ...room }), deepFreeze(speakers.map((s) => ({ ...s }))), deepFreeze({ ...seat }), { seatPositions: 10, speakerPositions: 4 })).not.toThrow()
     expect(() => searchPositions(room, speakers, { x: 3, y: 4.5, z: 1 })).toThrow('seat lies outside the room: y = 4.5 m > width 4.1 m')
   })
+})
+
+describe('searchPositions — the seat it offers is one the setup check accepts', () => {
+  // Rooms whose lowest spread along the centre line would lie against the back wall if the scan ran to it
+  // (a short room whose length mode cancels near the middle, and others); common practice, no source: the
+  // 0.6 m seat-to-wall distance is the setup check's own threshold (FLAG_THRESHOLDS.seatWallM).
+  const rooms = [
+    { length: 4.2, width: 3.4, height: 2.4 },
+    { length: 5.8, width: 4.1, height: 2.5 },
+    { length: 6.8, width: 4.2, height: 2.6 },
+    { length: 8.9, width: 5.6, height: 2.9 },
+  ]
+  for (const r of rooms) {
+    it(`${r.length} × ${r.width} × ${r.height} m: the best seat keeps ${FLAG_THRESHOLDS.seatWallM} m from the back wall, and no seat-near-wall flag follows`, () => {
+      const spk = [{ x: 0.7, y: r.width * 0.3, z: 1 }, { x: 0.7, y: r.width * 0.7, z: 1 }]
+      const out = searchPositions(r, spk, { x: 0.6 * r.length, y: r.width / 2, z: 1.1 }, { rt60: 0.4 })
+      expect(Math.max(...out.seat.scan.map((p) => p.x))).toBeLessThanOrEqual(r.length - FLAG_THRESHOLDS.seatWallM + 1e-9)
+      const flags = setupFlags({ room: r, speakers: spk, seats: [out.seat.best.point] })
+      expect(flags.map((f) => f.id)).not.toContain('seat-near-wall')
+    })
+  }
 })
