@@ -112,7 +112,7 @@ export async function queuePage(userId: string, query: QueueQuery): Promise<Queu
   const cap = countCap(query)
   if (sql.match) return searchPage(sql as Sql & { match: string }, query, offset, cap)
   if (query.sort === 'priority' && query.dir === 'desc') {
-    const { rows, n } = await byPriority(sql, offset, query.pageSize, cap)
+    const { rows, n } = (await byPriority(sql, offset, query.pageSize, cap))!
     return { rows, total: Math.min(n, cap), totalCapped: n > cap }
   }
   const countBind = [...sql.bind, cap + 1]
@@ -123,26 +123,31 @@ export async function queuePage(userId: string, query: QueueQuery): Promise<Queu
 }
 
 /**
- * A full-text search, bounded by the count's cap rather than by the number of matches. First (one
- * statement) at most cap + 1 matches are read, through the GIN index of search_all when the term is
- * rare; when that is all of them, the page is sorted from those few rows, with its columns and the exact
- * count. Only when there are more than the cap ("200+") is the page read in index order: the default
- * order walks the priority streams and tests each case's own row (`match` as a column, so the plan does
- * not depend on how common the term is), any other order sorts the matches in PostgreSQL.
+ * A full-text search, bounded by the count's cap rather than by the number of matches. In the default
+ * order the priority streams are walked in index order, testing each case's own row (`match` as a
+ * column, so the plan does not depend on how common the term is): a common term fills the page from the
+ * first rows, and its count ("250+") from the candidates, in one statement. Otherwise at most cap + 1
+ * matches are read (through the GIN index of search_all for a rare term); when that is all of them the
+ * page is sorted from those few rows, with the exact count; past the cap, any other order sorts the
+ * matches in PostgreSQL.
  */
 async function searchPage(sql: Sql & { match: string }, query: QueueQuery, offset: number, cap: number): Promise<QueuePage> {
   const all = { ...sql, where: `${sql.where} AND ${sql.match}` }
+  if (query.sort === 'priority' && query.dir === 'desc') {
+    const walked = await byPriority(sql, offset, query.pageSize, cap, sql.match)
+    if (walked) return { rows: walked.rows, total: Math.min(walked.n, cap), totalCapped: walked.n > cap }
+  }
   // as in byPriority: small whole numbers in the text for the first pages, parameters deeper
   const b = [...sql.bind]
   const lit = (v: number) => (offset <= 4 * query.pageSize ? String(Math.trunc(v)) : (b.push(v), `$${b.length}`))
   const [capP, sizeP, offsetP] = [lit(cap + 1), lit(query.pageSize), lit(offset)]
   const rows = await select<SummaryRow & { total: number; priority: number | null }>(
-    `WITH hit AS MATERIALIZED (SELECT c.id FROM cases c WHERE ${all.where} LIMIT ${capP}),
+    `WITH hit AS MATERIALIZED (SELECT c.* FROM cases c WHERE ${all.where} LIMIT ${capP}),
           h AS (SELECT count(*)::int AS total FROM hit)
      SELECT h.total, t.priority, d.*
        FROM h
        LEFT JOIN LATERAL (SELECT c.id, ${prioritySql} AS priority, row_number() OVER (ORDER BY ${orderSql(query)}) AS rn
-                            FROM hit JOIN cases c ON c.id = hit.id ORDER BY ${orderSql(query)} LIMIT ${sizeP} OFFSET ${offsetP}) t ON true
+                            FROM hit c ORDER BY ${orderSql(query)} LIMIT ${sizeP} OFFSET ${offsetP}) t ON true
        LEFT JOIN LATERAL (${summarySql} WHERE c.id = t.id) d ON true
       ORDER BY t.rn`,
     b,
@@ -152,8 +157,7 @@ async function searchPage(sql: Sql & { match: string }, query: QueueQuery, offse
     const page = rows.filter((r) => r.id !== null).map((r) => ({ ...toSummary(r), priority: Math.round(Number(r.priority) * 10) / 10 }))
     return { rows: page, total: n, totalCapped: false }
   }
-  const page = query.sort === 'priority' && query.dir === 'desc' ? (await byPriority(sql, offset, query.pageSize, cap, sql.match)).rows : await sortedPage(all, query, offset)
-  return { rows: page, total: cap, totalCapped: true }
+  return { rows: await sortedPage(all, query, offset), total: cap, totalCapped: true }
 }
 
 /** A page in any order: the ordered ids, then their summaries. */
@@ -196,10 +200,12 @@ const before = (x: { g: boolean; priority: number; id: string }, y: { g: boolean
  * middleware", PODS 2001) says when that is exact: no case outside the candidates can beat the stream
  * heads' bound. When it cannot be proved, m grows and the read repeats (rare: ties, deep pages).
  * With `hit` (a search's test of a case's row), the streams still read m rows each in index order, so
- * their heads bound the unseen cases as before, but only the rows that pass `hit` are candidates; the
- * count is left out (the caller knows it), and `n` is then 0.
+ * their heads bound the unseen cases as before, but only the rows that pass `hit` are candidates. The
+ * count is then only made when the candidates do not already pass the cap; and when the first read is
+ * not provably exact while the count shows few matches (a rare term), it answers null: sorting those
+ * few is cheaper than reading deeper (the caller does that).
  */
-export async function byPriority({ where, bind }: Sql, offset: number, size: number, cap: number, hit?: string): Promise<{ rows: QueueRow[]; n: number }> {
+export async function byPriority({ where, bind }: Sql, offset: number, size: number, cap: number, hit?: string): Promise<{ rows: QueueRow[]; n: number } | null> {
   const want = offset + size
   // m: deep enough that one read is usually provably exact (a second round trip costs more than rows)
   for (let m = Math.max(8 * want, 200); ; m *= 4) {
@@ -210,7 +216,10 @@ export async function byPriority({ where, bind }: Sql, offset: number, size: num
     const b = [...bind]
     const lit = (v: number) => (offset <= 4 * size ? String(Math.trunc(v)) : (b.push(v), `$${b.length}`))
     const [lim, sizeP, offsetP] = [lit(m), lit(size), lit(offset)]
-    const capP = hit ? '' : lit(cap + 1)
+    const capP = lit(cap + 1)
+    // (its own parameter as an int: the LIMIT's would be deduced as bigint)
+    const capI = hit ? (offset <= 4 * size ? String(Math.trunc(cap + 1)) : (b.push(cap + 1), `$${b.length}::int`)) : ''
+    const counted = `(SELECT count(*)::int FROM (SELECT 1 FROM cases c WHERE ${where}${hit ? ` AND ${hit}` : ''} LIMIT ${capP}) x)`
     const stream = (key: string, ws: string, order: string) =>
       `SELECT c.id, ${NEEDS} AS g, ${prioritySql} AS priority, ${key} AS key, ${hit ?? 'true'} AS hit FROM cases c WHERE ${where} AND c.waiting_since ${ws} ORDER BY ${NEEDS} DESC, ${order} DESC LIMIT ${lim}`
     const head = (t: string) => `(SELECT count(*)::int FROM ${t}) AS n${t}, (SELECT g FROM ${t} ORDER BY g, key LIMIT 1) AS g${t}, (SELECT key FROM ${t} ORDER BY g, key LIMIT 1) AS k${t}`
@@ -221,7 +230,7 @@ export async function byPriority({ where, bind }: Sql, offset: number, size: num
             n AS (${stream(SCORE, 'IS NULL', SCORE)}),
             cand AS (SELECT id, g, priority FROM a WHERE hit UNION SELECT id, g, priority FROM b WHERE hit UNION SELECT id, g, priority FROM n WHERE hit),
             heads AS (SELECT ${head('a')}, ${head('b')}, ${head('n')},
-                             ${hit ? '0' : `(SELECT count(*)::int FROM (SELECT 1 FROM cases c WHERE ${where} LIMIT ${capP}) x)`} AS total)
+                             ${hit ? `CASE WHEN (SELECT count(*)::int FROM cand) > ${capI} THEN ${capI} ELSE ${counted} END` : counted} AS total)
        SELECT h.*, t.g, t.priority, d.*
          FROM heads h
          LEFT JOIN LATERAL (SELECT id, g, priority FROM cand ORDER BY g DESC, priority DESC, id LIMIT ${sizeP} OFFSET ${offsetP}) t ON true
@@ -240,6 +249,7 @@ export async function byPriority({ where, bind }: Sql, offset: number, size: num
     if (proved(heads, m, offset + page.length, want, last ? { g: last.g!, priority: Number(last.priority) } : undefined)) {
       return { rows: page.map((r) => ({ ...toSummary(r), priority: Math.round(Number(r.priority) * 10) / 10 })), n: h.total }
     }
+    if (hit && h.total <= cap) return null
   }
 }
 
