@@ -9,7 +9,7 @@ export interface CannonOptions {
   method?: string
   headers?: Record<string, string>
   body?: string | Buffer
-  requests?: { method?: string; path?: string; headers?: Record<string, string>; body?: string | Buffer }[]
+  requests?: { method?: string; path?: string; headers?: Record<string, string>; body?: string | Buffer; setupRequest?: (req: { path: string }) => { path: string } }[]
 }
 interface Instance extends PromiseLike<{ requests: { total: number; average: number }; errors: number; non2xx: number; timeouts: number }> {
   on(event: 'response', fn: (client: unknown, status: number, bytes: number, ms: number) => void): void

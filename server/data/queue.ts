@@ -56,7 +56,8 @@ export interface QueuePage {
 /** How far the count goes: 200, or ten pages past the current one when that is further. */
 export const countCap = (query: Pick<QueueQuery, 'page' | 'pageSize'>) => Math.max(200, (query.page + 9) * query.pageSize)
 
-interface Sql { where: string; bind: unknown[]; p: (v: unknown) => string }
+/** The filters as SQL; `match`, the full-text test of a search, is kept apart from `where` (see searchPage). */
+interface Sql { where: string; bind: unknown[]; p: (v: unknown) => string; match?: string }
 
 function filters(userId: string, query: QueueQuery): Sql {
   const bind: unknown[] = []
@@ -70,12 +71,9 @@ function filters(userId: string, query: QueueQuery): Sql {
   if (query.scope === 'unassigned') where.push('c.assignee_id IS NULL')
   if (query.flag) where.push(`${p(query.flag)} = ANY(c.flag_ids)`)
   if (query.waitingHours !== undefined) where.push(`c.waiting_since <= now() - make_interval(secs => ${p(query.waitingHours * 3600)})`)
-  if (query.q) {
-    const ts = `websearch_to_tsquery('english', ${p(query.q)})`
-    // Two GIN index scans joined by UNION (an OR with a correlated EXISTS would check every case's messages).
-    where.push(`c.id IN (SELECT id FROM cases WHERE search @@ ${ts} UNION SELECT case_id FROM messages WHERE search @@ ${ts})`)
-  }
-  return { where: where.join(' AND '), bind, p }
+  // One document per case: title, description and every message (search_all, migration 0101).
+  const match = query.q ? `c.search_all @@ websearch_to_tsquery('english', ${p(query.q)})` : undefined
+  return { where: where.join(' AND '), bind, p, match }
 }
 
 interface PgConnection { query(q: { name: string; text: string; values: unknown[] }): Promise<{ rows: unknown[] }> }
@@ -112,26 +110,75 @@ export async function queuePage(userId: string, query: QueueQuery): Promise<Queu
   const offset = (query.page - 1) * query.pageSize
   const sql = filters(userId, query)
   const cap = countCap(query)
-  if (query.sort === 'priority' && query.dir === 'desc' && !query.q) {
-    const { rows, n } = await byPriority(sql, offset, query.pageSize, cap)
+  if (sql.match) return searchPage(sql as Sql & { match: string }, query, offset, cap)
+  if (query.sort === 'priority' && query.dir === 'desc') {
+    const { rows, n } = (await byPriority(sql, offset, query.pageSize, cap))!
     return { rows, total: Math.min(n, cap), totalCapped: n > cap }
   }
   const countBind = [...sql.bind, cap + 1]
   const counted = select<{ n: number }>(`SELECT count(*)::int AS n FROM (SELECT 1 FROM cases c WHERE ${sql.where} LIMIT $${countBind.length}) x`, countBind)
-  const page = await bySort(sql, query, offset)
-  const details = page.length ? await summaries(page.map((r) => r.id)) : new Map<string, CaseSummary>()
-  const rows = page.flatMap((r) => {
-    const s = details.get(r.id)
-    return s ? [{ ...s, priority: Math.round(r.priority * 10) / 10 }] : []
-  })
+  const rows = await sortedPage(sql, query, offset)
   const n = (await counted)[0].n
   return { rows, total: Math.min(n, cap), totalCapped: n > cap }
 }
 
+/**
+ * A full-text search, bounded by the count's cap rather than by the number of matches. In the default
+ * order the priority streams are walked in index order, testing each case's own row (`match` as a
+ * column, so the plan does not depend on how common the term is): a common term fills the page from the
+ * first rows, and its count ("250+") from the candidates, in one statement. Otherwise at most cap + 1
+ * matches are read (through the GIN index of search_all for a rare term); when that is all of them the
+ * page is sorted from those few rows, with the exact count; past the cap, any other order sorts the
+ * matches in PostgreSQL.
+ */
+async function searchPage(sql: Sql & { match: string }, query: QueueQuery, offset: number, cap: number): Promise<QueuePage> {
+  const all = { ...sql, where: `${sql.where} AND ${sql.match}` }
+  if (query.sort === 'priority' && query.dir === 'desc') {
+    const walked = await byPriority(sql, offset, query.pageSize, cap, sql.match)
+    if (walked) return { rows: walked.rows, total: Math.min(walked.n, cap), totalCapped: walked.n > cap }
+  }
+  // as in byPriority: small whole numbers in the text for the first pages, parameters deeper
+  const b = [...sql.bind]
+  const lit = (v: number) => (offset <= 4 * query.pageSize ? String(Math.trunc(v)) : (b.push(v), `$${b.length}`))
+  const [capP, sizeP, offsetP] = [lit(cap + 1), lit(query.pageSize), lit(offset)]
+  const rows = await select<SummaryRow & { total: number; priority: number | null }>(
+    `WITH hit AS MATERIALIZED (SELECT c.* FROM cases c WHERE ${all.where} LIMIT ${capP}),
+          h AS (SELECT count(*)::int AS total FROM hit)
+     SELECT h.total, t.priority, d.*
+       FROM h
+       LEFT JOIN LATERAL (SELECT c.id, ${prioritySql} AS priority, row_number() OVER (ORDER BY ${orderSql(query)}) AS rn
+                            FROM hit c ORDER BY ${orderSql(query)} LIMIT ${sizeP} OFFSET ${offsetP}) t ON true
+       LEFT JOIN LATERAL (${summarySql} WHERE c.id = t.id) d ON true
+      ORDER BY t.rn`,
+    b,
+  )
+  const n = rows[0].total
+  if (n <= cap) {
+    const page = rows.filter((r) => r.id !== null).map((r) => ({ ...toSummary(r), priority: Math.round(Number(r.priority) * 10) / 10 }))
+    return { rows: page, total: n, totalCapped: false }
+  }
+  return { rows: await sortedPage(all, query, offset), total: cap, totalCapped: true }
+}
+
+/** A page in any order: the ordered ids, then their summaries. */
+async function sortedPage(sql: Sql, query: QueueQuery, offset: number): Promise<QueueRow[]> {
+  const page = await bySort(sql, query, offset)
+  const details = page.length ? await summaries(page.map((r) => r.id)) : new Map<string, CaseSummary>()
+  return page.flatMap((r) => {
+    const s = details.get(r.id)
+    return s ? [{ ...s, priority: Math.round(r.priority * 10) / 10 }] : []
+  })
+}
+
+/** ORDER BY for the query's sort over `cases c` (ties by id, so pages never overlap). */
+const orderSql = (query: QueueQuery) => {
+  const dir = query.dir === 'asc' ? 'ASC' : 'DESC'
+  return query.sort === 'priority' ? `${NEEDS} ${dir}, ${prioritySql} ${dir}, c.id` : `${sortSql[query.sort]} ${dir} NULLS LAST, c.id`
+}
+
 /** Any sort, any filter: one ordered scan of the matching cases (open work by default, so bounded by the desk's size). */
 async function bySort({ where, bind, p }: Sql, query: QueueQuery, offset: number): Promise<{ id: string; priority: number }[]> {
-  const dir = query.dir === 'asc' ? 'ASC' : 'DESC'
-  const order = query.sort === 'priority' ? `${NEEDS} ${dir}, ${prioritySql} ${dir}, c.id` : `${sortSql[query.sort]} ${dir} NULLS LAST, c.id`
+  const order = orderSql(query)
   const rows = await select<{ id: string; priority: number }>(
     `SELECT c.id, ${prioritySql} AS priority FROM cases c WHERE ${where} ORDER BY ${order} LIMIT ${p(query.pageSize)} OFFSET ${p(offset)}`,
     bind,
@@ -152,8 +199,13 @@ const before = (x: { g: boolean; priority: number; id: string }, y: { g: boolean
  * merged; Fagin's threshold algorithm (Fagin, Lotem & Naor, "Optimal aggregation algorithms for
  * middleware", PODS 2001) says when that is exact: no case outside the candidates can beat the stream
  * heads' bound. When it cannot be proved, m grows and the read repeats (rare: ties, deep pages).
+ * With `hit` (a search's test of a case's row), the streams still read m rows each in index order, so
+ * their heads bound the unseen cases as before, but only the rows that pass `hit` are candidates. The
+ * count is then only made when the candidates do not already pass the cap; and when the first read is
+ * not provably exact while the count shows few matches (a rare term), it answers null: sorting those
+ * few is cheaper than reading deeper (the caller does that).
  */
-export async function byPriority({ where, bind }: Sql, offset: number, size: number, cap: number): Promise<{ rows: QueueRow[]; n: number }> {
+export async function byPriority({ where, bind }: Sql, offset: number, size: number, cap: number, hit?: string): Promise<{ rows: QueueRow[]; n: number } | null> {
   const want = offset + size
   // m: deep enough that one read is usually provably exact (a second round trip costs more than rows)
   for (let m = Math.max(8 * want, 200); ; m *= 4) {
@@ -163,18 +215,22 @@ export async function byPriority({ where, bind }: Sql, offset: number, size: num
     // Beyond the first pages they stay parameters, so deep paging does not prepare a statement per page.
     const b = [...bind]
     const lit = (v: number) => (offset <= 4 * size ? String(Math.trunc(v)) : (b.push(v), `$${b.length}`))
-    const [lim, sizeP, offsetP, capP] = [lit(m), lit(size), lit(offset), lit(cap + 1)]
+    const [lim, sizeP, offsetP] = [lit(m), lit(size), lit(offset)]
+    const capP = lit(cap + 1)
+    // (its own parameter as an int: the LIMIT's would be deduced as bigint)
+    const capI = hit ? (offset <= 4 * size ? String(Math.trunc(cap + 1)) : (b.push(cap + 1), `$${b.length}::int`)) : ''
+    const counted = `(SELECT count(*)::int FROM (SELECT 1 FROM cases c WHERE ${where}${hit ? ` AND ${hit}` : ''} LIMIT ${capP}) x)`
     const stream = (key: string, ws: string, order: string) =>
-      `SELECT c.id, ${NEEDS} AS g, ${prioritySql} AS priority, ${key} AS key FROM cases c WHERE ${where} AND c.waiting_since ${ws} ORDER BY ${NEEDS} DESC, ${order} DESC LIMIT ${lim}`
+      `SELECT c.id, ${NEEDS} AS g, ${prioritySql} AS priority, ${key} AS key, ${hit ?? 'true'} AS hit FROM cases c WHERE ${where} AND c.waiting_since ${ws} ORDER BY ${NEEDS} DESC, ${order} DESC LIMIT ${lim}`
     const head = (t: string) => `(SELECT count(*)::int FROM ${t}) AS n${t}, (SELECT g FROM ${t} ORDER BY g, key LIMIT 1) AS g${t}, (SELECT key FROM ${t} ORDER BY g, key LIMIT 1) AS k${t}`
     // The merge, the stream heads, the capped count and the page's columns in one statement: one round trip, few rows.
     const rows = await select<SummaryRow & Heads & { priority: number | null; g: boolean | null; total: number }>(
       `WITH a AS (${stream(`${SCORE} + ${CAP_POINTS}`, 'IS NOT NULL', SCORE)}),
             b AS (${stream(UNCAPPED, 'IS NOT NULL', RANK)}),
             n AS (${stream(SCORE, 'IS NULL', SCORE)}),
-            cand AS (SELECT id, g, priority FROM a UNION SELECT id, g, priority FROM b UNION SELECT id, g, priority FROM n),
+            cand AS (SELECT id, g, priority FROM a WHERE hit UNION SELECT id, g, priority FROM b WHERE hit UNION SELECT id, g, priority FROM n WHERE hit),
             heads AS (SELECT ${head('a')}, ${head('b')}, ${head('n')},
-                             (SELECT count(*)::int FROM (SELECT 1 FROM cases c WHERE ${where} LIMIT ${capP}) x) AS total)
+                             ${hit ? `CASE WHEN (SELECT count(*)::int FROM cand) > ${capI} THEN ${capI} ELSE ${counted} END` : counted} AS total)
        SELECT h.*, t.g, t.priority, d.*
          FROM heads h
          LEFT JOIN LATERAL (SELECT id, g, priority FROM cand ORDER BY g DESC, priority DESC, id LIMIT ${sizeP} OFFSET ${offsetP}) t ON true
@@ -193,6 +249,7 @@ export async function byPriority({ where, bind }: Sql, offset: number, size: num
     if (proved(heads, m, offset + page.length, want, last ? { g: last.g!, priority: Number(last.priority) } : undefined)) {
       return { rows: page.map((r) => ({ ...toSummary(r), priority: Math.round(Number(r.priority) * 10) / 10 })), n: h.total }
     }
+    if (hit && h.total <= cap) return null
   }
 }
 

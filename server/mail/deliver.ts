@@ -3,7 +3,7 @@ import { Op, Transaction } from 'sequelize'
 import { config } from '../config'
 import { db } from '../db/sequelize'
 import { models } from '../db/models'
-import { dbNow } from '../db/models/now'
+import { dbNow, dbNowPlus } from '../db/models/now'
 import { jobs } from '../jobs/queue'
 import { log } from '../lib/log'
 import { DELIVER_QUEUE, DELIVERY_POLICY, MAX_ATTEMPTS, enqueueInTransaction, ensureMailQueues } from './queues'
@@ -100,8 +100,8 @@ export async function deliverOutboxEmail(outboxId: string): Promise<DeliveryOutc
       return { outcome: 'sent' as const }
     } catch (e) {
       const giveUp = isPermanent(e) || attempt >= MAX_ATTEMPTS
-      // next_attempt_at is informational (pg-boss owns the retry): the earliest retry by this clock
-      const next = new Date(Date.now() + (giveUp ? 0 : retryWaitSeconds(attempt)) * 1000)
+      // next_attempt_at is informational (pg-boss owns the retry): the earliest retry, by the database's clock
+      const next = dbNowPlus(giveUp ? 0 : retryWaitSeconds(attempt)) as unknown as Date
       await row.update({ status: giveUp ? 'failed' : 'queued', attempts: attempt, lastError: describe(e), nextAttemptAt: next, updatedAt: dbNow() }, { transaction: t })
       if (giveUp) {
         log.error('e-mail not delivered, giving up', { outboxId, attempt, err: describe(e) })
@@ -125,7 +125,8 @@ const LIVE_STATES = new Set(['created', 'retry', 'active'])
 export async function sweepOutbox(opts: { quietSeconds?: number; limit?: number } = {}): Promise<{ checked: number; requeued: number }> {
   const sequelize = db()
   const { EmailOutbox } = models()
-  const quiet = new Date(Date.now() - (opts.quietSeconds ?? 120) * 1000)
+  // by the database's clock, which wrote updated_at: a node whose own clock runs fast or slow picks the same rows
+  const quiet = dbNowPlus(-(opts.quietSeconds ?? 120))
   const rows = await EmailOutbox.findAll({
     attributes: ['id', 'jobId'], where: { status: 'queued', updatedAt: { [Op.lt]: quiet } }, order: [['createdAt', 'ASC']], limit: opts.limit ?? 200,
   })

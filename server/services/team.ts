@@ -2,7 +2,7 @@ import { assertStrongPassword } from '../auth/password-strength'
 import { createHash, randomBytes } from 'node:crypto'
 import { Op, col, fn, where, type Transaction, type WhereOptions } from 'sequelize'
 import { models, type AuditLogModel, type TeamInvitationModel, type UserModel } from '../db/models'
-import { dbNow } from '../db/models/now'
+import { dbNow, dbNowPlus, dbPassed } from '../db/models/now'
 import { withTransaction } from '../db/transaction'
 import { insertEvent } from '../data/events'
 import { AppError, conflict, forbidden, notFound } from '../errors'
@@ -98,24 +98,33 @@ export async function endSessions(userId: string, t: Transaction, afterCommit: (
 
 // ----------------------------------------------------------------- invitations
 
+/**
+ * Whether the link has expired, by the database's clock (read with the row as the attribute `expired`),
+ * so that every node agrees whatever its own clock says.
+ */
+const withExpired = { attributes: { include: [[dbPassed('TeamInvitation', 'expires_at'), 'expired']] as [ReturnType<typeof dbPassed>, string][] } }
+const expired = (r: TeamInvitationModel) => {
+  const e = r.get('expired' as never) as unknown
+  if (typeof e !== 'boolean') throw new Error('an invitation row read without its expired attribute (withExpired)')
+  return e
+}
 const stateOf = (r: TeamInvitationModel): Invitation['state'] =>
-  r.acceptedAt ? 'accepted' : r.revokedAt ? 'revoked' : new Date(r.expiresAt) <= new Date() ? 'expired' : 'pending'
+  r.acceptedAt ? 'accepted' : r.revokedAt ? 'revoked' : expired(r) ? 'expired' : 'pending'
 const toInvitation = (r: TeamInvitationModel): Invitation => ({
   id: r.id, email: r.email, name: r.name, role: r.role,
   invitedBy: r.invitedBy ? { id: r.invitedBy, name: r.inviter?.name ?? '' } : null,
   createdAt: iso(r.createdAt), expiresAt: iso(r.expiresAt), state: stateOf(r),
 })
-const withInviter = { include: [{ association: 'inviter', attributes: ['id', 'name'], required: false }] }
+const withInviter = { ...withExpired, include: [{ association: 'inviter', attributes: ['id', 'name'], required: false }] }
 /** An e-mail address compared as the unique index on users compares it (lower-case). */
 const emailIs = (email: string) => where(fn('lower', col('email')), Op.eq, fn('lower', email))
 const emailTaken = async (email: string, t?: Transaction) => (await models().User.count({ where: emailIs(email), transaction: t })) > 0
-const HOUR = 3_600_000
 
 /** Invitations not yet used, newest first (expired ones stay listed for a week so they can be sent again). */
 export async function listInvitations(): Promise<Invitation[]> {
   const rows = await models().TeamInvitation.findAll({
     ...withInviter,
-    where: { acceptedAt: null, revokedAt: null, expiresAt: { [Op.gt]: new Date(Date.now() - 7 * 24 * HOUR) } },
+    where: { acceptedAt: null, revokedAt: null, expiresAt: { [Op.gt]: dbNowPlus(-7 * 24 * 3600) } },
     order: [['createdAt', 'DESC']],
   })
   return rows.map(toInvitation)
@@ -134,7 +143,7 @@ export async function invite(by: User, input: InviteInput): Promise<{ invitation
   const id = await withTransaction(async (t) => {
     await TeamInvitation.update({ revokedAt: dbNow() }, { where: { [Op.and]: [emailIs(input.email), { acceptedAt: null, revokedAt: null }] }, transaction: t })
     const row = await TeamInvitation.create(
-      { email: input.email, name: input.name, role: input.role, tokenHash: hashToken(token), invitedBy: by.id, expiresAt: new Date(Date.now() + INVITATION_HOURS * HOUR) },
+      { email: input.email, name: input.name, role: input.role, tokenHash: hashToken(token), invitedBy: by.id, expiresAt: dbNowPlus(INVITATION_HOURS * 3600) as unknown as Date },
       { transaction: t },
     )
     await queueEmail(
@@ -165,13 +174,13 @@ function usable(row: TeamInvitationModel | null): TeamInvitationModel {
   if (!row) throw notFound('That invitation link')
   if (row.acceptedAt) throw gone('This invitation link has already been used. Sign in with the password you chose, or ask a supervisor for a new invitation.')
   if (row.revokedAt) throw gone('This invitation was withdrawn or replaced by a newer one. Use the latest e-mail, or ask a supervisor to invite you again.')
-  if (new Date(row.expiresAt) <= new Date()) throw gone(`This invitation link has expired (links work for ${INVITATION_HOURS} hours). Ask a supervisor to send a new one.`)
+  if (expired(row)) throw gone(`This invitation link has expired (links work for ${INVITATION_HOURS} hours). Ask a supervisor to send a new one.`)
   return row
 }
 
 /** What the set-password page shows; 404 for an unknown link, 410 for a used, withdrawn or expired one. */
 export async function previewInvitation(token: string): Promise<InvitationPreview> {
-  const r = usable(await models().TeamInvitation.findOne({ where: { tokenHash: hashToken(token) } }))
+  const r = usable(await models().TeamInvitation.findOne({ ...withExpired, where: { tokenHash: hashToken(token) } }))
   return { email: r.email, name: r.name, role: r.role, expiresAt: iso(r.expiresAt) }
 }
 
@@ -180,7 +189,7 @@ export async function acceptInvitation(input: AcceptInvitationInput): Promise<Us
   assertStrongPassword(input.password, input.name ? [input.name] : [])
   const passwordHash = await hashPassword(input.password)
   return withTransaction(async (t) => {
-    const inv = usable(await models().TeamInvitation.findOne({ where: { tokenHash: hashToken(input.token) }, transaction: t, lock: t.LOCK.UPDATE }))
+    const inv = usable(await models().TeamInvitation.findOne({ ...withExpired, where: { tokenHash: hashToken(input.token) }, transaction: t, lock: t.LOCK.UPDATE }))
     if (await emailTaken(inv.email, t)) throw conflict('There is already an account with this e-mail address; sign in with it instead', 'email_taken')
     const created = await models().User.create({ email: inv.email, name: input.name ?? inv.name, role: inv.role, passwordHash }, { transaction: t })
     const u: User = { id: created.id, email: created.email, name: created.name, role: created.role }

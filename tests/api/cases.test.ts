@@ -163,6 +163,17 @@ describe('GET /api/cases', () => {
     const none = await advisor.c.get('/api/cases?q=zzyzxglorp').expect(200)
     expect(none.body.total).toBe(0)
   })
+  it('a search matches a case when its title and its messages together hold the words, with an exact count', async () => {
+    const listener = await signedIn('listener')
+    const advisor = await signedIn('advisor')
+    const { case: c } = await openCase(listener.c, { title: 'The theorbo corner sounds hollow' })
+    await listener.c.post(`/api/cases/${c.id}/messages`, { body: 'Only after the marimbaphone arrived' }).expect(201)
+    const both = (await advisor.c.get('/api/cases?q=theorbo%20marimbaphone').expect(200)).body
+    expect(both.rows.map((r: { id: string }) => r.id)).toEqual([c.id])
+    expect(both).toMatchObject({ total: 1, totalCapped: false })
+    const other = (await advisor.c.get('/api/cases?q=theorbo%20-marimbaphone').expect(200)).body
+    expect(other.total).toBe(0)
+  })
   it('filters mine / unassigned and pages with a total', async () => {
     const listener = await signedIn('listener')
     const advisor = await signedIn('advisor')

@@ -1,4 +1,4 @@
-import { afterAll, beforeAll, describe, expect, it } from 'vitest'
+import { afterAll, afterEach, beforeAll, describe, expect, it, vi } from 'vitest'
 import { SMTPServer } from 'smtp-server'
 import type { AddressInfo } from 'node:net'
 import { QueryTypes, type Transaction } from 'sequelize'
@@ -184,6 +184,34 @@ describe('deliverOutboxEmail — through a real SMTP server', () => {
 
   it('an unknown outbox id is "missing", not an error', async () => {
     expect(await deliverOutboxEmail('00000000-0000-4000-8000-00000000beef')).toBe('missing')
+  })
+})
+
+describe("the sweep's quiet window is measured by the database's clock", () => {
+  const HOUR = 3_600_000
+  /** This process's clock (Date only; timers keep running) moved by `ms`, as on a node whose clock is off. */
+  const skewNodeClock = (ms: number) => vi.useFakeTimers({ toFake: ['Date'], now: Date.now() + ms })
+  afterEach(() => vi.useRealTimers())
+  const ageBy = (id: string, minutes: number) => db().query(`UPDATE email_outbox SET updated_at = now() - make_interval(mins => $2) WHERE id = $1`, { bind: [id, minutes] })
+
+  it('a row quiet for 10 minutes by the database is re-queued by a node whose clock is an hour slow', async () => {
+    const r = await queueForTest(replyInput(await caseFixture(), 'Swept by the slow node.'))
+    await ageBy(r.id, 10)
+    skewNodeClock(-HOUR)
+    await sweepOutbox({ quietSeconds: 300 })
+    vi.useRealTimers()
+    const row = await outbox(r.id)
+    expect(row.job_id).not.toBe(r.jobId)
+    expect(row.job_id).not.toBeNull()
+  })
+
+  it('a row touched a minute ago by the database is left alone by a node whose clock is an hour fast', async () => {
+    const r = await queueForTest(replyInput(await caseFixture(), 'Left alone by the fast node.'))
+    await ageBy(r.id, 1)
+    skewNodeClock(HOUR)
+    await sweepOutbox({ quietSeconds: 300 })
+    vi.useRealTimers()
+    expect((await outbox(r.id)).job_id).toBe(r.jobId)
   })
 })
 

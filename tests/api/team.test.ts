@@ -1,4 +1,4 @@
-import { afterAll, describe, expect, it } from 'vitest'
+import { afterAll, afterEach, describe, expect, it, vi } from 'vitest'
 import { QueryTypes } from 'sequelize'
 import { client, closeTestApp, signedIn, uniqueEmail, makeUser } from '../helpers/api'
 import { openCase } from '../helpers/cases'
@@ -60,6 +60,46 @@ describe('invitations', () => {
     expect(res.body.error).toMatchObject({ code: 'link_gone', message: expect.stringMatching(/expired/) })
     const users = await db().query('SELECT 1 FROM users WHERE email = $1', { bind: [email], type: QueryTypes.SELECT })
     expect(users).toHaveLength(0)
+  })
+
+  describe("by the database's clock, not this node's", () => {
+    const HOUR = 3_600_000
+    /** This process's clock (Date only; timers keep running) moved by `ms`, as on a node whose clock is off. */
+    const skewNodeClock = (ms: number) => vi.useFakeTimers({ toFake: ['Date'], now: Date.now() + ms })
+    afterEach(() => vi.useRealTimers())
+
+    it('a link the database says has expired answers 410, although the node clock, two hours slow, says it has an hour and more left', async () => {
+      const sup = await signedIn('supervisor')
+      const email = uniqueEmail('skewed')
+      const inv = (await sup.c.post('/api/team/invitations', { email, name: 'Wilhelmina Quarrie', role: 'advisor' }).expect(201)).body
+      const token = await invitationLink(email)
+      await db().query(`UPDATE team_invitations SET expires_at = now() - interval '1 minute' WHERE id = $1`, { bind: [inv.id] })
+      const visitor = await client()
+      skewNodeClock(-2 * HOUR)
+      await visitor.get(`/api/team/invitations/by-token/${token}`).expect(410)
+      const res = await visitor.post('/api/team/invitations/accept', { token, password: NEW_PASSWORD }).expect(410)
+      expect(res.body.error).toMatchObject({ code: 'link_gone', message: expect.stringMatching(/expired/) })
+      const listed = (await sup.c.get('/api/team/invitations').expect(200)).body.invitations as { id: string; state: string }[]
+      expect(listed.find((i) => i.id === inv.id)?.state).toBe('expired')
+      vi.useRealTimers()
+      const users = await db().query('SELECT 1 FROM users WHERE email = $1', { bind: [email], type: QueryTypes.SELECT })
+      expect(users).toHaveLength(0)
+    })
+
+    it("a new link's 72 hours start at the database's now, even on a node whose clock is two hours fast", async () => {
+      const sup = await signedIn('supervisor')
+      const email = uniqueEmail('fast-node')
+      skewNodeClock(2 * HOUR)
+      const inv = (await sup.c.post('/api/team/invitations', { email, name: 'Caspian Thorold', role: 'advisor' }).expect(201)).body
+      vi.useRealTimers()
+      const [row] = await db().query<{ hours: number }>(`SELECT extract(epoch FROM expires_at - now()) / 3600 AS hours FROM team_invitations WHERE id = $1`, { bind: [inv.id], type: QueryTypes.SELECT })
+      expect(Number(row.hours)).toBeGreaterThan(71.5)
+      expect(Number(row.hours)).toBeLessThanOrEqual(72)
+      expect(inv.state).toBe('pending')
+      // the link works from a node whose clock is right
+      const token = await invitationLink(email)
+      await (await client()).get(`/api/team/invitations/by-token/${token}`).expect(200)
+    })
   })
 
   it('inviting the same address again withdraws the first link; a withdrawn link answers 410', async () => {
