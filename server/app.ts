@@ -7,6 +7,7 @@ import { join, resolve } from 'node:path'
 import { config } from './config'
 import { configurePassport } from './auth/passport'
 import { SessionStore } from './auth/session-store'
+import { clientPage } from './middleware/client-page'
 import { csrfProtection } from './middleware/csrf'
 import { rejectNulCharacters } from './middleware/validate'
 import { errorHandler, notFoundHandler } from './middleware/errors'
@@ -121,7 +122,8 @@ export function createApp(opts: { clientDir?: string | false } = {}): BuiltApp {
   const clientDir = opts.clientDir === undefined ? resolve('dist') : opts.clientDir
   if (clientDir && existsSync(join(clientDir, 'index.html'))) {
     app.use(express.static(clientDir, { index: false, maxAge: '1h' }))
-    app.get(/^(?!\/api\/|\/socket\.io\/).*/, (_req, res) => res.sendFile(join(clientDir, 'index.html')))
+    // the page carries who is signed in (./middleware/client-page.ts), read through the same session as the API
+    app.get(/^(?!\/api\/|\/socket\.io\/).*/, sessionMiddleware, sessionUser(passport), clientPage(join(clientDir, 'index.html')))
   }
   app.use(errorHandler)
 

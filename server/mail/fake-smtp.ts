@@ -105,6 +105,8 @@ export async function startFakeSmtp(opts: { port?: number; host?: string; inboun
         text: parsed.text ?? undefined,
         html: typeof parsed.html === 'string' ? parsed.html : undefined,
         autoSubmitted: Array.isArray(auto) ? auto[0] : auto || undefined,
+        messageId: parsed.messageId ?? undefined,
+        date: parsed.date ? parsed.date.toISOString() : undefined,
       })
     }
   }

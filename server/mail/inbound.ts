@@ -9,7 +9,9 @@ import { insertMessage } from '../data/messages'
 import { insertEvent } from '../data/events'
 import { withTransaction } from '../db/transaction'
 import { publishCase } from '../services/live'
+import { AlreadyReceived, claimReceipt, findReceipt, type Receipt } from '../data/inbound-receipts'
 import { REPLY_MARKER } from './templates'
+import { inboundMessageKey } from './inbound-identity'
 
 /** An e-mail sent to a case's reply address, from the fake SMTP server or a provider's inbound webhook. */
 export interface InboundEmail {
@@ -28,6 +30,14 @@ export interface InboundEmail {
    * is held for the team like one from a stranger.
    */
   authenticationResults?: string
+  /**
+   * The Message-ID header (RFC 5322 §3.6.4), as the provider or the SMTP server received it: the same
+   * e-mail delivered twice to one case is taken in once (./inbound-identity.ts; without one, a hash of
+   * the normalised headers and text stands in).
+   */
+  messageId?: string
+  /** The Date header, when known: part of the fallback identity of an e-mail without a Message-ID. */
+  date?: string
 }
 
 /**
@@ -43,8 +53,9 @@ export function senderFailsAuthentication(results: string | undefined): boolean 
 }
 
 export type InboundRejection = 'no_reply_address' | 'unknown_token' | 'sender_mismatch' | 'sender_unverified' | 'listener_inactive' | 'auto_reply' | 'empty_reply' | `case_${string}`
-export type InboundResult = { accepted: true; caseId: string; messageId?: string } | { accepted: false; reason: InboundRejection }
-export type AppendReply = (input: { caseId: string; userId: string; body: string }) => Promise<{ id?: string } | unknown>
+export type InboundResult = { accepted: true; caseId: string; messageId?: string; duplicate?: true } | { accepted: false; reason: InboundRejection }
+/** Appends the reply; with `messageKey`, it records the e-mail's receipt in the same transaction (claimReceipt). */
+export type AppendReply = (input: { caseId: string; userId: string; body: string; messageKey?: string }) => Promise<{ id?: string } | unknown>
 
 const TOKEN = /^[A-Za-z0-9_-]{16,64}$/
 const MAX_BODY = 20_000
@@ -152,7 +163,7 @@ async function logInbound(via: 'smtp' | 'webhook', mail: InboundEmail, status: '
  * listener. It is kept on the case as an internal note (staff only, ../data/visibility.ts) with an
  * internal history entry, so the advisor sees it and can decide what to do.
  */
-async function holdForTeam(caseId: string, mail: InboundEmail, sender: string | null, why: 'stranger' | 'unverified' = 'stranger'): Promise<void> {
+async function holdForTeam(caseId: string, mail: InboundEmail, sender: string | null, messageKey: string, why: 'stranger' | 'unverified' = 'stranger'): Promise<void> {
   const text = stripQuotedReply(mail.text?.trim() ? mail.text : mail.html ? htmlToReplyText(mail.html) : '').slice(0, 4000)
   const from = (sender ?? String(mail.from ?? '')).slice(0, 200).replace(/[`\r\n]/g, ' ')
   const body = [
@@ -164,6 +175,7 @@ async function holdForTeam(caseId: string, mail: InboundEmail, sender: string | 
   ].filter(Boolean).join('\n\n')
   await withTransaction(async (t, afterCommit) => {
     const messageId = await insertMessage({ caseId, authorId: null, body, internal: true, source: 'email' }, t)
+    await claimReceipt({ caseId, messageKey, messageId, outcome: why === 'stranger' ? 'sender_mismatch' : 'sender_unverified' }, t)
     const seq = await insertEvent({ caseId, actorId: null, kind: 'email-held', data: { messageId, internal: true, from } }, t)
     afterCommit(() => {
       publishCase(caseId, { type: 'case.message', caseId, messageId, internal: true }, { internal: true })
@@ -182,7 +194,10 @@ function sameToken(a: string, b: string): boolean {
  * Appends a reply received by e-mail to its case as the listener's message. Rejected (and logged in
  * inbound_email_log) when no recipient is a reply address, the token matches no case, the sender is
  * not the case's listener, the message is an automatic reply, nothing is left after the quoted
- * history is stripped, or the case refuses the message (closed, say).
+ * history is stripped, or the case refuses the message (closed, say). An e-mail the case already took
+ * in (same Message-ID, or without one the same normalised headers and text: ./inbound-identity.ts) adds
+ * nothing and gets its first answer again: accepted with `duplicate` and the first message's id, or the
+ * same held-for-the-team rejection (inbound_email_receipts, migration 0100, unique per case).
  */
 export async function handleInboundEmail(mail: InboundEmail, opts: { via?: 'smtp' | 'webhook'; append?: AppendReply } = {}): Promise<InboundResult> {
   const via = opts.via ?? 'webhook'
@@ -201,14 +216,28 @@ export async function handleInboundEmail(mail: InboundEmail, opts: { via?: 'smtp
   })
   if (!c || !sameToken(c.replyToken, token)) return reject('unknown_token')
   const sender = parseAddress(mail.from ?? '')
-  if (!sender || sender !== c.listener!.email.toLowerCase()) {
-    await holdForTeam(c.id, mail, sender)
-    return reject('sender_mismatch', c.id)
+
+  // The same e-mail again (a provider's retry, a replay, SMTP delivering twice): the first answer, nothing added.
+  const messageKey = inboundMessageKey(mail, sender)
+  const again = async (receipt: Receipt): Promise<InboundResult> => {
+    if (receipt.outcome !== 'posted') return reject(receipt.outcome, c.id)
+    await logInbound(via, mail, 'accepted', 'duplicate', c.id)
+    return { accepted: true, caseId: c.id, ...(receipt.messageId ? { messageId: receipt.messageId } : {}), duplicate: true }
   }
-  if (senderFailsAuthentication(mail.authenticationResults)) {
-    await holdForTeam(c.id, mail, sender, 'unverified')
-    return reject('sender_unverified', c.id)
+  const seen = await findReceipt(c.id, messageKey)
+  if (seen) return again(seen)
+  const hold = async (why: 'stranger' | 'unverified'): Promise<InboundResult> => {
+    try {
+      await holdForTeam(c.id, mail, sender, messageKey, why)
+    } catch (e) {
+      if (e instanceof AlreadyReceived) return again(e.receipt)
+      throw e
+    }
+    return reject(why === 'stranger' ? 'sender_mismatch' : 'sender_unverified', c.id)
   }
+
+  if (!sender || sender !== c.listener!.email.toLowerCase()) return hold('stranger')
+  if (senderFailsAuthentication(mail.authenticationResults)) return hold('unverified')
   // a switched-off account may not write through the web, so not by e-mail either
   if (!c.listener!.active) return reject('listener_inactive', c.id)
   if (mail.autoSubmitted && mail.autoSubmitted.trim().toLowerCase() !== 'no') return reject('auto_reply', c.id)
@@ -221,8 +250,9 @@ export async function handleInboundEmail(mail: InboundEmail, opts: { via?: 'smtp
 
   let appended: unknown
   try {
-    appended = await append({ caseId: c.id, userId: c.listenerId, body })
+    appended = await append({ caseId: c.id, userId: c.listenerId, body, messageKey })
   } catch (e) {
+    if (e instanceof AlreadyReceived) return again(e.receipt)
     if (e instanceof AppError && e.status < 500) return reject(`case_${e.code}`.slice(0, 40) as InboundRejection, c.id)
     throw e
   }

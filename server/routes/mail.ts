@@ -55,6 +55,10 @@ const inboundBody = z.object({
   html: z.string().max(2_000_000).optional(),
   /** the receiving server's Authentication-Results (RFC 8601), when the provider passes it on */
   authenticationResults: z.string().max(4000).optional(),
+  /** the Message-ID header: the same e-mail posted twice is taken in once (mail/inbound-identity.ts) */
+  messageId: z.string().max(998).optional(),
+  /** the Date header: with the text, the identity of an e-mail that has no Message-ID */
+  date: z.string().max(200).optional(),
 })
 
 /** Rejections the sender cannot fix by retrying: who may write is refused (403), what was written is unusable (422). */
@@ -83,7 +87,8 @@ export function mailRouter(): Router {
     if (!result.accepted) {
       throw new AppError(rejectionMessage[result.reason] ?? 'The case did not accept this message', { status: rejectionStatus(result.reason), code: result.reason })
     }
-    res.status(201).json(result)
+    // a delivery of an e-mail the case already took in: 200 with the first message's id, nothing added
+    res.status(result.duplicate ? 200 : 201).json(result)
   })
 
   return router

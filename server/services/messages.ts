@@ -4,6 +4,7 @@ import { insertEvent } from '../data/events'
 import { attachFilesToMessage, insertMessage, listMessages } from '../data/messages'
 import type { MessageModel } from '../db/models'
 import { findUserById } from '../data/users'
+import { claimReceipt } from '../data/inbound-receipts'
 import { withTransaction } from '../db/transaction'
 import { badRequest, conflict, forbidden, notFound } from '../errors'
 import { renderMarkdownSafe } from '../mail/templates'
@@ -50,7 +51,12 @@ async function autoMove(caseId: string, actorId: string, from: CaseStatus, to: C
   return insertEvent({ caseId, actorId, kind: 'status', fromStatus: from, toStatus: to, data: { auto: reason } }, t)
 }
 
-export async function postMessage(user: User, caseId: string, input: MessageInput, source: 'app' | 'email' = 'app'): Promise<CaseMessage> {
+/**
+ * Posts a message to a case's thread. `inboundKey` (an e-mailed reply, ../mail/inbound-identity.ts): the
+ * e-mail's receipt is recorded in the same transaction, and a second delivery of it throws AlreadyReceived
+ * (../data/inbound-receipts.ts) with nothing written.
+ */
+export async function postMessage(user: User, caseId: string, input: MessageInput, source: 'app' | 'email' = 'app', opts: { inboundKey?: string } = {}): Promise<CaseMessage> {
   const body = messageSchema.parse(input)
   const c = await readableCase(user, caseId)
   const staff = isStaff(user)
@@ -61,6 +67,7 @@ export async function postMessage(user: User, caseId: string, input: MessageInpu
 
   const messageId = await withTransaction(async (t, afterCommit) => {
     const id = await insertMessage({ caseId, authorId: user.id, body: body.body, internal: body.internal, source }, t)
+    if (opts.inboundKey) await claimReceipt({ caseId, messageKey: opts.inboundKey, messageId: id, outcome: 'posted' }, t)
     await attachFiles(caseId, id, user.id, body.fileIds, t)
     const seq = await insertEvent({ caseId, actorId: user.id, kind: body.internal ? 'note' : 'message', data: { messageId: id, internal: body.internal, source } }, t)
     const moves: number[] = []
@@ -101,9 +108,9 @@ export async function postMessage(user: User, caseId: string, input: MessageInpu
 }
 
 /** A listener's answer that arrived by e-mail (the reply token was already checked by the caller). */
-export async function receiveEmailReply(input: { caseId: string; userId: string; body: string }): Promise<CaseMessage> {
+export async function receiveEmailReply(input: { caseId: string; userId: string; body: string; messageKey?: string }): Promise<CaseMessage> {
   const user = await findUserById(input.userId)
   const c = await findCase(input.caseId)
   if (!user || !c || c.listenerId !== user.id) throw notFound('That case')
-  return postMessage({ id: user.id, email: user.email, name: user.name, role: user.role }, input.caseId, { body: input.body }, 'email')
+  return postMessage({ id: user.id, email: user.email, name: user.name, role: user.role }, input.caseId, { body: input.body }, 'email', { inboundKey: input.messageKey })
 }

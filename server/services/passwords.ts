@@ -10,7 +10,7 @@ import { queueEmail } from '../mail/outbox'
 import { publicBaseUrl } from '../mail/templates'
 import { hashPassword } from './auth'
 import { endSessions, hashToken, recordAudit } from './team'
-import type { ChangePasswordInput, PasswordResetInput, User } from '../../shared/schemas/auth'
+import type { ChangePasswordInput, PasswordResetInput, Role, User } from '../../shared/schemas/auth'
 
 /** How long a reset link works (OWASP Forgot Password Cheat Sheet: short-lived). */
 export const RESET_LINK_MINUTES = 60
@@ -21,8 +21,13 @@ export const RESET_EMAILS_PER_HOUR = 3
 export const RESET_REQUESTED_MESSAGE =
   'If that address belongs to a Roomwright account, a link to choose a new password is on its way. It works once, for 60 minutes. Check the spam folder if nothing arrives.'
 
-/** The token travels in the fragment (#), which browsers never send to a server nor put in a Referer. */
-export const resetPasswordUrl = (token: string) => `${publicBaseUrl()}/reset-password#token=${token}`
+/**
+ * The token travels in the fragment (#), which browsers never send to a server nor put in a Referer.
+ * The link also says whose account it is (`for=staff` or `for=listener`), so the page speaks to them (a display hint only:
+ * the server judges the token alone).
+ */
+export const resetPasswordUrl = (token: string, role?: Role) =>
+  `${publicBaseUrl()}/reset-password#token=${token}${role ? `&for=${role === 'listener' ? 'listener' : 'staff'}` : ''}`
 
 const wrongCurrent = () =>
   new AppError('Your current password is not right', { status: 400, code: 'bad_current_password', fields: [{ path: 'currentPassword', message: 'that is not your current password' }] })
@@ -65,7 +70,7 @@ export async function sendPasswordResetLink(email: string): Promise<'sent' | 'no
     if ((await countResetTokensSince(u.id, new Date(Date.now() - 3600_000), t)) >= RESET_EMAILS_PER_HOUR) return 'limited'
     await spendResetTokens(u.id, t)
     const row = await insertResetToken({ userId: u.id, tokenHash: hashToken(token), expiresAt: new Date(Date.now() + RESET_LINK_MINUTES * 60_000) }, t)
-    await queueEmail({ to: u.email, toUserId: u.id, kind: 'password-reset', vars: { resetUrl: resetPasswordUrl(token), expiresAt: row.expiresAt } }, { transaction: t })
+    await queueEmail({ to: u.email, toUserId: u.id, kind: 'password-reset', vars: { resetUrl: resetPasswordUrl(token, u.role), expiresAt: row.expiresAt } }, { transaction: t })
     return 'sent'
   })
 }

@@ -23,8 +23,25 @@ export const caseAnswerWords: Record<Reader, { description: string; use: string;
   },
 }
 
-/** The side panel of the sign-in, sign-up and password pages: listeners get the product, staff the desk. */
-export const accountStory: Record<Reader, { headline: string; lead: string; points: string[] }> = {
+/**
+ * Who the side panel of the account pages speaks to: sign-up is for listeners, an invitation for staff;
+ * sign-in and "forgot password" serve everyone, unless the page knows whose account it is.
+ */
+export type AccountReader = Reader | 'everyone'
+
+/** The side panel of the sign-in, sign-up and password pages: listeners get the product, staff the desk, everyone both. */
+export const accountStory: Record<AccountReader, { headline: string; lead: string; points: string[] }> = {
+  everyone: {
+    headline: 'One desk for rooms that sound better',
+    lead:
+      'Listeners describe a room and what they hear in it; advisors answer with the room already checked, and a ' +
+      'treatment plan comes back in plain words.',
+    points: [
+      'Listeners: open a case about a room, send photos and measurements, follow the answers here and by e-mail.',
+      'Advisors: work the queue with the bass modes, reflections and setup checks worked out before you start.',
+      'Supervisors: see waiting times against the targets, spread the work and look after the team.',
+    ],
+  },
   listener: {
     headline: 'Advice for the room you listen in',
     lead:

@@ -1,10 +1,29 @@
 import {
-  passwordResetRequestedSchema, sessionSchema, userSchema, type ChangePasswordInput, type LoginInput, type PasswordResetInput, type RegisterInput, type User,
+  passwordResetRequestedSchema, sessionSchema, userSchema, type ChangePasswordInput, type LoginInput, type PasswordResetInput, type RegisterInput, type Session, type User,
 } from '../../shared/schemas/auth'
 import { ApiRequestError, api, forgetCsrfToken } from './client'
 
+/**
+ * The answer of GET /api/auth/session that the server wrote into the page it served (server/middleware/
+ * client-page.ts), taken once: a later check asks the server again. Null when the page has none (the vite
+ * dev server) or it does not read as a session.
+ */
+function sessionInPage(): Session | null {
+  const el = typeof document === 'undefined' ? null : document.getElementById('rw-session')
+  if (!el) return null
+  el.remove()
+  try {
+    const parsed = sessionSchema.safeParse(JSON.parse(el.textContent ?? ''))
+    return parsed.success ? parsed.data : null
+  } catch {
+    return null
+  }
+}
+
 /** The signed-in user, or null when there is no session (GET /api/auth/session answers 200 either way). */
 export async function getMe(): Promise<User | null> {
+  const inPage = sessionInPage()
+  if (inPage) return inPage.user
   return (await api.get('/api/auth/session', { schema: sessionSchema, notifyUnauthorized: false })).user
 }
 

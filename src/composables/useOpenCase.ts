@@ -5,6 +5,7 @@ import { caseErrorMessage } from '../api/cases'
 import { useCasesStore } from '../stores/cases'
 import { useCaseAttachments } from './useCaseAttachments'
 import { useCaseLive } from './useLive'
+import { useShownWhileSet } from './useShownWhileSet'
 
 export interface CaseNotice {
   text: string
@@ -47,12 +48,7 @@ export function useOpenCase(
 
   const busy = ref<CaseStatus | null>(null)
   const notice = ref<CaseNotice | null>(null)
-  const noticeOpen = computed({
-    get: () => notice.value !== null,
-    set: (open: boolean) => {
-      if (!open) notice.value = null
-    },
-  })
+  const noticeOpen = useShownWhileSet(notice)
 
   async function move(to: CaseStatus): Promise<void> {
     busy.value = to

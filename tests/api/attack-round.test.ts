@@ -2,6 +2,7 @@ import { afterAll, describe, expect, it } from 'vitest'
 import request from 'supertest'
 import { performance } from 'node:perf_hooks'
 import { QueryTypes } from 'sequelize'
+import nodemailer from 'nodemailer'
 
 // Findings of our own break-in round (SECURITY.md "Findings of our own review"). Small budgets so the
 // limit tests stay short; TRUST_PROXY lets each test speak from its own client address.
@@ -16,6 +17,7 @@ setConfigForTests(loadConfig())
 const { db } = await import('../../server/db/sequelize')
 const { INBOUND_SECRET_HEADER } = await import('../../server/routes/mail')
 const { bcryptRounds, registerListener } = await import('../../server/services/auth')
+const { startFakeSmtp } = await import('../../server/mail/fake-smtp')
 
 afterAll(closeTestApp)
 
@@ -112,6 +114,83 @@ describe('the inbound reply webhook', () => {
     await post(body, SECRET, '203.0.113.91').expect(403)
     // and right-secret answers never count: many 403s from one address stay 403
     for (let i = 0; i < 6; i++) await post(body, SECRET, '203.0.113.92').expect(403)
+  })
+})
+
+describe('a replayed inbound e-mail is taken in once per case (inbound_email_receipts, migration 0100)', () => {
+  const post = (body: object, from = '198.51.100.210') =>
+    request(testApp()).post('/api/inbound/email').set(INBOUND_SECRET_HEADER, SECRET).set('X-Forwarded-For', from).send(body)
+  const caseWithToken = async () => {
+    const listener = await signedIn('listener')
+    const { case: c } = await openCase(listener.c)
+    const [{ reply_token: token }] = await db().query<{ reply_token: string }>('SELECT reply_token FROM cases WHERE id = $1', { bind: [c.id], type: QueryTypes.SELECT })
+    return { listener, caseId: c.id, to: `reply+${token}@${config().MAIL_REPLY_DOMAIN}` }
+  }
+  const count = async (caseId: string, body: string) => Number((await db().query<{ n: string }>('SELECT count(*) AS n FROM messages WHERE case_id = $1 AND body LIKE $2', { bind: [caseId, `%${body}%`], type: QueryTypes.SELECT }))[0].n)
+
+  it('the same Message-ID posted again to the webhook answers 200 duplicate with the first message id and adds nothing (before: a second message)', async () => {
+    const { listener, caseId, to } = await caseWithToken()
+    const mail = { to, from: listener.user.email, subject: 'Re: your case', text: 'The panels went up on Saturday, the flutter is gone.', messageId: '<CAF7q-replay-41@mail.example.test>' }
+    const first = await post(mail).expect(201)
+    const again = await post(mail).expect(200)
+    expect(again.body).toEqual({ accepted: true, caseId, messageId: first.body.messageId, duplicate: true })
+    // the same id written differently (no angle brackets, folded) and another text is still the same e-mail
+    await post({ ...mail, messageId: ' CAF7q-replay-41@mail.example.test ', text: 'tampered text' }).expect(200)
+    expect(await count(caseId, 'panels went up on Saturday')).toBe(1)
+    expect(await count(caseId, 'tampered text')).toBe(0)
+    const events = await db().query<{ n: string }>("SELECT count(*) AS n FROM case_events WHERE case_id = $1 AND kind = 'message'", { bind: [caseId], type: QueryTypes.SELECT })
+    expect(Number(events[0].n)).toBe(1)
+    // another Message-ID is another e-mail
+    await post({ ...mail, messageId: '<CAF7q-replay-42@mail.example.test>' }).expect(201)
+    expect(await count(caseId, 'panels went up on Saturday')).toBe(2)
+  })
+
+  it('five deliveries of one e-mail at the same moment add one message (the unique constraint decides, not a prior read)', async () => {
+    const { listener, caseId, to } = await caseWithToken()
+    const mail = { to, from: listener.user.email, subject: 'Re: case', text: 'Concurrent replay of the bass trap answer', messageId: '<race-7731@mail.example.test>' }
+    // each from its own address: the wrong-secret limiter counts every request until it is answered
+    const answers = await Promise.all([1, 2, 3, 4, 5].map((i) => post(mail, `198.51.100.${220 + i}`)))
+    expect(answers.map((a) => a.status).sort()).toEqual([200, 200, 200, 200, 201])
+    expect(new Set(answers.map((a) => a.body.messageId)).size).toBe(1)
+    expect(await count(caseId, 'Concurrent replay of the bass trap answer')).toBe(1)
+  })
+
+  it('without a Message-ID, the same headers and text count as the same e-mail (normalised hash); other words are a new one', async () => {
+    const { listener, caseId, to } = await caseWithToken()
+    const mail = { to, from: `Listener <${listener.user.email.toUpperCase()}>`, subject: 'Re:  the  case', date: 'Thu, 03 Dec 2026 09:12:00 +0000', text: 'No id here: the sofa moved 40 cm forward.' }
+    await post(mail).expect(201)
+    // CRLF line ends, trailing spaces, another spelling of the same Date and the address in another case: still the same e-mail
+    await post({ ...mail, from: listener.user.email, subject: 'Re: the case', date: 'Thu, 3 Dec 2026 10:12:00 +0100', text: 'No id here: the sofa moved 40 cm forward.  \r\n' }).expect(200)
+    expect(await count(caseId, 'sofa moved 40 cm forward')).toBe(1)
+    await post({ ...mail, text: 'No id here: the sofa moved 60 cm forward.' }).expect(201)
+    expect(await count(caseId, 'sofa moved 60 cm forward')).toBe(1)
+  })
+
+  it('a held e-mail from a stranger replayed is not held twice: the same 403 sender_mismatch, one internal note', async () => {
+    const { caseId, to } = await caseWithToken()
+    const mail = { to, from: 'stranger-replay@example.test', subject: 'Re: case', text: 'Send the panels to this other address', messageId: '<held-once@example.test>' }
+    expect((await post(mail).expect(403)).body.error.code).toBe('sender_mismatch')
+    expect((await post(mail).expect(403)).body.error.code).toBe('sender_mismatch')
+    expect(await count(caseId, 'Send the panels to this other address')).toBe(1)
+    const held = await db().query<{ n: string }>("SELECT count(*) AS n FROM case_events WHERE case_id = $1 AND kind = 'email-held'", { bind: [caseId], type: QueryTypes.SELECT })
+    expect(Number(held[0].n)).toBe(1)
+  })
+
+  it('the same message delivered twice by SMTP (and once more through the webhook) is one message in the thread', async () => {
+    const { listener, caseId, to } = await caseWithToken()
+    const fake = await startFakeSmtp({ port: 0, host: '127.0.0.1' })
+    try {
+      const smtp = nodemailer.createTransport({ host: '127.0.0.1', port: fake.port, secure: false, ignoreTLS: true })
+      const mail = { from: listener.user.email, to, subject: 'Re: case', text: 'Measured again after the rug: 4 dB less at 63 Hz.', messageId: '<smtp-twice-9@mail.example.test>' }
+      await smtp.sendMail(mail)
+      await smtp.sendMail(mail)
+      await post({ ...mail }).expect(200)
+    } finally {
+      await fake.stop()
+    }
+    expect(await count(caseId, '4 dB less at 63 Hz')).toBe(1)
+    const log = await db().query<{ status: string; reason: string | null; via: string }>('SELECT status, reason, via FROM inbound_email_log WHERE case_id = $1 ORDER BY id', { bind: [caseId], type: QueryTypes.SELECT })
+    expect(log).toEqual([{ status: 'accepted', reason: null, via: 'smtp' }, { status: 'accepted', reason: 'duplicate', via: 'smtp' }, { status: 'accepted', reason: 'duplicate', via: 'webhook' }])
   })
 })
 

@@ -11,7 +11,7 @@ import { CaseModel, CaseEventModel, CaseRatingModel, TriageSnapshotModel, initCa
 import { MessageModel, initMessages } from './message'
 import { FileModel, initFiles } from './file'
 import { TreatmentPlanModel, initPlans } from './plan'
-import { EmailOutboxModel, DevMailboxModel, InboundEmailLogModel, initMail } from './mail'
+import { EmailOutboxModel, DevMailboxModel, InboundEmailLogModel, InboundEmailReceiptModel, initMail } from './mail'
 import { ReplySnippetModel, SavedFilterModel, DeskSettingsModel, initDesk } from './desk'
 import { TeamInvitationModel, AuditLogModel, PasswordResetTokenModel, SessionModel, initTeam } from './team'
 import { RateLimitHitModel, initRateLimit } from './rate-limit'
@@ -20,7 +20,7 @@ import { sharedWithListener, type Audience } from '../../data/visibility'
 export {
   UserModel, RoomModel, RoomRevisionModel, CaseModel, CaseEventModel, CaseRatingModel, TriageSnapshotModel, MessageModel, FileModel,
   TreatmentPlanModel, EmailOutboxModel, DevMailboxModel, InboundEmailLogModel, ReplySnippetModel, SavedFilterModel, DeskSettingsModel,
-  TeamInvitationModel, AuditLogModel, PasswordResetTokenModel, SessionModel, RateLimitHitModel,
+  TeamInvitationModel, AuditLogModel, PasswordResetTokenModel, SessionModel, RateLimitHitModel, InboundEmailReceiptModel,
 }
 
 // Built on first use: user.ts imports this module back (for `userModel()`), so the classes may not exist yet at load time.
@@ -29,7 +29,7 @@ const build = () => ({
   TriageSnapshot: TriageSnapshotModel, Message: MessageModel, File: FileModel, TreatmentPlan: TreatmentPlanModel,
   EmailOutbox: EmailOutboxModel, DevMailbox: DevMailboxModel, InboundEmailLog: InboundEmailLogModel, ReplySnippet: ReplySnippetModel,
   SavedFilter: SavedFilterModel, DeskSettings: DeskSettingsModel, TeamInvitation: TeamInvitationModel, AuditLog: AuditLogModel, PasswordResetToken: PasswordResetTokenModel, Session: SessionModel,
-  RateLimitHit: RateLimitHitModel,
+  RateLimitHit: RateLimitHitModel, InboundEmailReceipt: InboundEmailReceiptModel,
 })
 export type Models = ReturnType<typeof build>
 let all: Models
@@ -104,6 +104,8 @@ const links: Link[] = [
   ['EmailOutbox', 'belongsTo', 'User', 'recipient', 'toUserId'],
   ['EmailOutbox', 'belongsTo', 'Case', 'case', 'caseId'],
   ['InboundEmailLog', 'belongsTo', 'Case', 'case', 'caseId'],
+  ['InboundEmailReceipt', 'belongsTo', 'Case', 'case', 'caseId', true],
+  ['InboundEmailReceipt', 'belongsTo', 'Message', 'message', 'messageId'],
   ['ReplySnippet', 'belongsTo', 'User', 'author', 'createdBy'],
   ['User', 'hasMany', 'SavedFilter', 'savedFilters', 'userId', true],
   ['SavedFilter', 'belongsTo', 'User', 'owner', 'userId', true],

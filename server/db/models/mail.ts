@@ -52,6 +52,19 @@ export class InboundEmailLogModel extends Model<InferAttributes<InboundEmailLogM
   declare createdAt: CreationOptional<Date>
 }
 
+/**
+ * An e-mail a case has taken in (migration 0100), by its identity `messageKey` (../../mail/inbound-identity.ts):
+ * unique per case, so the same e-mail delivered again changes nothing.
+ */
+export class InboundEmailReceiptModel extends Model<InferAttributes<InboundEmailReceiptModel>, InferCreationAttributes<InboundEmailReceiptModel>> {
+  declare id: CreationOptional<string>
+  declare caseId: ForeignKey<CaseModel['id']>
+  declare messageKey: string
+  declare messageId: ForeignKey<string> | null
+  declare outcome: 'posted' | 'sender_mismatch' | 'sender_unverified'
+  declare receivedAt: CreationOptional<Date>
+}
+
 export function initMail(sequelize: Sequelize) {
   EmailOutboxModel.init(
     {
@@ -101,5 +114,14 @@ export function initMail(sequelize: Sequelize) {
       createdAt: stampNow(),
     },
     { sequelize, modelName: 'InboundEmailLog', tableName: 'inbound_email_log', underscored: true, timestamps: false },
+  )
+  InboundEmailReceiptModel.init(
+    {
+      id: { type: DataTypes.UUID, primaryKey: true, defaultValue: DataTypes.UUIDV4 },
+      messageKey: { type: DataTypes.STRING(80), allowNull: false },
+      outcome: { type: DataTypes.STRING(20), allowNull: false, validate: { isIn: [['posted', 'sender_mismatch', 'sender_unverified']] } },
+      receivedAt: stampNow(),
+    },
+    { sequelize, modelName: 'InboundEmailReceipt', tableName: 'inbound_email_receipts', underscored: true, timestamps: false },
   )
 }

@@ -3,9 +3,13 @@ import type { UnitSystem } from '../../composables/useUnits'
 
 /** Small helpers the room form's blocks share. */
 
-/** The messages for one field of a row of a list (`openings.2.from`), empty when it is fine. */
-export const rowErrors = (errors: Record<string, string[]>, path: string) => (index: number, field: string) => errors[`${path}.${index}.${field}`] ?? []
-
+/** One coordinate of a row of a list (an opening's `from`, a seat's `z`): the length field that edits it. */
+export interface RowCoord<T> {
+  key: { [K in keyof T]: T[K] extends number ? K : never }[keyof T] & string
+  label: string
+  hint?: string
+  testid?: string
+}
 
 /** A select's items from a list of values and their names, the names capitalised. */
 export const nameItems = <V extends string>(values: readonly V[], names: Partial<Record<string, string>>) =>
