@@ -56,7 +56,8 @@ async function main(): Promise<number> {
       failed = j.numFailedTests + (j.numFailedTests === 0 && j.numFailedTestSuites > 0 ? j.numFailedTestSuites : 0)
       skipped = j.numPendingTests + j.numTodoTests
     } else failed = 1
-    console.log(`${passed} passed, ${failed} failed${skipped ? `, ${skipped} skipped` : ''}`)
+    if (skipped) console.log(`${skipped} skipped`)
+    console.log(`${passed} passed, ${failed} failed`)
     return r.status === 0 && failed === 0 ? 0 : 1
   } finally {
     cluster.stop()

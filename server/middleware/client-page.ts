@@ -1,9 +1,6 @@
 import type { RequestHandler } from 'express'
 import { readFileSync } from 'node:fs'
-import type { Session } from '../../shared/schemas/auth'
-
-/** The id of the element that carries the session in the page; the client reads it in src/api/auth.ts. */
-export const SESSION_ELEMENT_ID = 'rw-session'
+import { SESSION_ELEMENT_ID, type Session } from '../../shared/schemas/auth'
 
 /**
  * JSON that is safe inside a <script> element: `<`, `>` and `&` cannot end the element or open a comment,

@@ -33,6 +33,8 @@ export type User = z.infer<typeof userSchema>
 
 /** GET /api/auth/session: who is signed in, answered 200 either way (null when nobody is), so a signed-out page has no failing request. */
 export const sessionSchema = z.object({ user: userSchema.nullable() })
+/** The id of the JSON element in the served page that carries this answer (server/middleware/client-page.ts writes it, src/api/auth.ts reads it). */
+export const SESSION_ELEMENT_ID = 'rw-session'
 export type Session = z.infer<typeof sessionSchema>
 
 export const csrfSchema = z.object({ token: z.string() })

@@ -1,5 +1,5 @@
 import {
-  passwordResetRequestedSchema, sessionSchema, userSchema, type ChangePasswordInput, type LoginInput, type PasswordResetInput, type RegisterInput, type Session, type User,
+  SESSION_ELEMENT_ID, passwordResetRequestedSchema, sessionSchema, userSchema, type ChangePasswordInput, type LoginInput, type PasswordResetInput, type RegisterInput, type Session, type User,
 } from '../../shared/schemas/auth'
 import { ApiRequestError, api, forgetCsrfToken } from './client'
 
@@ -9,7 +9,7 @@ import { ApiRequestError, api, forgetCsrfToken } from './client'
  * dev server) or it does not read as a session.
  */
 function sessionInPage(): Session | null {
-  const el = typeof document === 'undefined' ? null : document.getElementById('rw-session')
+  const el = typeof document === 'undefined' ? null : document.getElementById(SESSION_ELEMENT_ID)
   if (!el) return null
   el.remove()
   try {

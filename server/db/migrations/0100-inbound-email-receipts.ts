@@ -1,5 +1,5 @@
 import { DataTypes, type QueryInterface } from 'sequelize'
-import { ref, stamp, uuidKey } from '../columns'
+import { ref, required, stamp, uuidKey } from '../columns'
 
 /**
  * One row per e-mail a case has taken in (posted as the listener's message, or held for the team), keyed
@@ -12,9 +12,9 @@ export async function up({ context: q }: { context: QueryInterface }): Promise<v
   await q.createTable('inbound_email_receipts', {
     id: uuidKey(),
     case_id: ref('cases', 'CASCADE', true),
-    message_key: { type: DataTypes.STRING(80), allowNull: false },
+    message_key: required(DataTypes.STRING(80)),
     message_id: ref('messages', 'SET NULL'),
-    outcome: { type: DataTypes.STRING(20), allowNull: false },
+    outcome: required(DataTypes.STRING(20)),
     received_at: stamp(),
   })
   await q.addConstraint('inbound_email_receipts', { type: 'unique', name: 'inbound_email_receipts_case_key', fields: ['case_id', 'message_key'] })

@@ -1,7 +1,7 @@
 import { DataTypes, Model, type CreationOptional, type ForeignKey, type InferAttributes, type InferCreationAttributes, type Sequelize } from 'sequelize'
 import type { UserModel } from './user'
 import type { CaseModel } from './case'
-import { maybeAt, optional, required, serialKey, stampNow, timestamps } from '../columns'
+import { appUuidKey, maybeAt, optional, required, serialKey, stampNow, timestamps } from '../columns'
 
 /** An e-mail waiting for (or done with) delivery; written in the same transaction as the change it announces. */
 export class EmailOutboxModel extends Model<InferAttributes<EmailOutboxModel>, InferCreationAttributes<EmailOutboxModel>> {
@@ -117,9 +117,9 @@ export function initMail(sequelize: Sequelize) {
   )
   InboundEmailReceiptModel.init(
     {
-      id: { type: DataTypes.UUID, primaryKey: true, defaultValue: DataTypes.UUIDV4 },
-      messageKey: { type: DataTypes.STRING(80), allowNull: false },
-      outcome: { type: DataTypes.STRING(20), allowNull: false, validate: { isIn: [['posted', 'sender_mismatch', 'sender_unverified']] } },
+      id: appUuidKey(),
+      messageKey: required(DataTypes.STRING(80)),
+      outcome: { ...required(DataTypes.STRING(20)), validate: { isIn: [['posted', 'sender_mismatch', 'sender_unverified']] } },
       receivedAt: stampNow(),
     },
     { sequelize, modelName: 'InboundEmailReceipt', tableName: 'inbound_email_receipts', underscored: true, timestamps: false },
