@@ -1,5 +1,6 @@
 import { z } from 'zod'
 import { caseStatusSchema } from './case'
+import { pageQuery } from './paging'
 
 export const queueSorts = ['priority', 'waiting', 'age', 'activity', 'score', 'title'] as const
 
@@ -15,8 +16,7 @@ export const queueQuerySchema = z.object({
   q: z.string().trim().max(200).optional(),
   sort: z.enum(queueSorts).default('priority'),
   dir: z.enum(['asc', 'desc']).default('desc'),
-  page: z.coerce.number().int().min(1).max(10_000).default(1),
-  pageSize: z.coerce.number().int().min(1).max(100).default(25),
+  ...pageQuery(100, 25),
 })
 export type QueueQuery = z.infer<typeof queueQuerySchema>
 

@@ -1,5 +1,6 @@
 import { z } from 'zod'
 import { emailSchema, passwordSchema, type Role } from './auth'
+import { pageQuery } from './paging'
 
 export const staffRoles = ['advisor', 'supervisor'] as const
 export const staffRoleSchema = z.enum(staffRoles)
@@ -38,8 +39,7 @@ export interface AccountSummary {
 export const listenerQuerySchema = z.object({
   search: z.string().trim().max(120).optional().transform((s) => s || undefined),
   active: z.enum(['true', 'false']).optional().transform((v) => (v === undefined ? undefined : v === 'true')),
-  page: z.coerce.number().int().min(1).max(10_000).default(1),
-  pageSize: z.coerce.number().int().min(1).max(100).default(25),
+  ...pageQuery(100, 25),
 })
 export type ListenerQuery = z.output<typeof listenerQuerySchema>
 
@@ -67,23 +67,8 @@ export interface Invitation {
 /** What the set-password page shows before the password is chosen. */
 export interface InvitationPreview { email: string; name: string; role: StaffRole; expiresAt: string }
 
-export const auditActions = [
-  'invitation.sent',
-  'invitation.revoked',
-  'invitation.accepted',
-  'member.deactivated',
-  'member.reactivated',
-  'member.role_changed',
-  'targets.changed',
-  'snippet.team_created',
-  'snippet.team_changed',
-  'snippet.team_deleted',
-  'password.changed',
-  'password.reset',
-] as const
-export type AuditAction = (typeof auditActions)[number]
-
-export const auditActionLabels: Record<AuditAction, string> = {
+/** Every audit action with its label; the list of actions (and the query's enum) is read from it. */
+export const auditActionLabels = {
   'invitation.sent': 'Invitation sent',
   'invitation.revoked': 'Invitation withdrawn',
   'invitation.accepted': 'Invitation accepted',
@@ -97,6 +82,8 @@ export const auditActionLabels: Record<AuditAction, string> = {
   'password.changed': 'Password changed',
   'password.reset': 'Password reset by e-mail link',
 }
+export type AuditAction = keyof typeof auditActionLabels
+export const auditActions = Object.keys(auditActionLabels) as [AuditAction, ...AuditAction[]]
 
 const instant = z.string().datetime({ offset: true, message: 'an ISO date-time such as 2025-03-03T00:00:00Z' })
 
@@ -106,8 +93,7 @@ export const auditQuerySchema = z.object({
   action: z.enum(auditActions).optional(),
   from: instant.optional(),
   to: instant.optional(),
-  page: z.coerce.number().int().min(1).max(10_000).default(1),
-  pageSize: z.coerce.number().int().min(1).max(200).default(50),
+  ...pageQuery(200, 50),
 })
 export type AuditQuery = z.infer<typeof auditQuerySchema>
 
