@@ -123,8 +123,9 @@ async function readBody<T>(response: Response, schema?: ZodType<T>): Promise<T> 
 /**
  * GET answers asked for before anyone needs them: a page's first data, requested by the router while the
  * page's own code is still on its way (./early.ts), so the two no longer come one after the other. The
- * first GET of the same URL takes the answer (once); what is not taken within EARLY_MS, a new navigation,
- * or any request that changes something drops them, so no answer older than that is ever shown.
+ * first GET of the same URL takes the answer (once). What is not taken within EARLY_MS is not used, and a new
+ * navigation, any request that changes something, or a live event (../stores/live.ts) drops them all, so an
+ * answer that may predate a change is never shown.
  */
 const early = new Map<string, { at: number; answer: Promise<Response> }>()
 const EARLY_MS = 5000

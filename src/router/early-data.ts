@@ -20,8 +20,8 @@ export function earlyData(to: Pick<RouteLocationNormalized, 'name' | 'params' | 
     case 'case-workspace':
       return [c, `${c}/triage`, `${c}/triage/history`, `${c}/messages`, `${c}/files`, `${c}/events`, `/api/snippets/for-case/${encodeURIComponent(id)}`, '/api/auth/preferences']
     case 'case':
-      // the triage once the case is sent (nearly every case a listener opens); a draft's 404 is then unused
-      return [c, `${c}/messages`, `${c}/files`, `${c}/events`, `${c}/triage`, `${c}/triage/history`, plansPath(id), '/api/auth/preferences']
+      // not the triage: a draft has none (404), and the page asks for it once the case says it was sent
+      return [c, `${c}/messages`, `${c}/files`, `${c}/events`, plansPath(id), '/api/auth/preferences']
     case 'plan-editor':
       return [c, plansPath(id)]
     case 'room-edit':

@@ -43,9 +43,9 @@ describe('early data: the URLs the router starts are the ones the pages ask for'
       cases.getCase(ID), cases.getTriage(ID), cases.getTriageHistory(ID), cases.listMessages(ID), files.listFiles(ID), cases.listEvents(ID), snippetsForCase(ID), getPreferences(),
     ])
   })
-  it("the listener's case page: case, thread, files, events, triage, plans, units", async () => {
+  it("the listener's case page: case, thread, files, events, plans, units (the triage only once the case says it was sent)", async () => {
     await expectTaken({ name: 'case', params: { id: ID }, query: {} }, () => [
-      cases.getCase(ID), cases.listMessages(ID), files.listFiles(ID), cases.listEvents(ID), cases.getTriage(ID), cases.getTriageHistory(ID), plans.listPlans(ID), getPreferences(),
+      cases.getCase(ID), cases.listMessages(ID), files.listFiles(ID), cases.listEvents(ID), plans.listPlans(ID), getPreferences(),
     ])
   })
   it('the plan editor, the room editor and the queue', async () => {
