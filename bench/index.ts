@@ -2,7 +2,9 @@
  * `npm run bench`: runs every benchmark script and prints one table of figures at the end.
  * Each script exports `run(): Promise<Figure[]>`; timing is reported here, never asserted in tests.
  */
+import { spawn } from 'node:child_process'
 import { cpus } from 'node:os'
+import { fileURLToPath } from 'node:url'
 
 export interface Figure { name: string; value: number; unit: string; target?: string }
 
@@ -14,15 +16,41 @@ const all = ['./engine', './engine-worst', './signal', './lowfreq', './queue', '
 const only = process.env.BENCH_ONLY?.split(',').map((x) => `./${x.trim()}`)
 const scripts = only ? all.filter((s) => only.includes(s)) : all
 
+const MARK = 'BENCH_FIGURES '
+// A child process runs one part and hands its figures back on one stdout line.
+if (process.env.BENCH_PART) {
+  const mod = (await import(process.env.BENCH_PART)) as { run?: () => Promise<Figure[]> }
+  const figures = mod.run ? await mod.run() : []
+  process.stdout.write(`\n${MARK}${JSON.stringify(figures.map((f) => ({ ...f, value: Number.isFinite(f.value) ? f.value : null })))}\n`)
+  process.exit(0)
+}
+
+/**
+ * Each part runs in a process of its own (its own heap, event loop and throwaway database), so one
+ * part's seeded rows, caches and garbage do not weigh on the next part's figures.
+ */
+function runPart(s: string): Promise<Figure[]> {
+  return new Promise((resolve, reject) => {
+    const child = spawn(process.execPath, [...process.execArgv, fileURLToPath(import.meta.url)], {
+      env: { ...process.env, BENCH_PART: s }, stdio: ['ignore', 'pipe', 'inherit'],
+    })
+    let out = ''
+    child.stdout.on('data', (d: Buffer) => { out += d.toString() })
+    child.on('error', reject)
+    child.on('exit', (code) => {
+      const line = out.split('\n').find((l) => l.startsWith(MARK))
+      if (!line) return reject(new Error(`exit ${code}, no figures`))
+      resolve((JSON.parse(line.slice(MARK.length)) as Figure[]).map((f) => ({ ...f, value: f.value ?? NaN })))
+    })
+  })
+}
+
 const rows: (Figure & { script: string })[] = []
 for (const s of scripts) {
   try {
-    const mod = (await import(s)) as { run?: () => Promise<Figure[]> }
-    if (!mod.run) continue
     console.error(`[bench] ${s} …`)
-    for (const f of await mod.run()) rows.push({ ...f, script: s.slice(2) })
+    for (const f of await runPart(s)) rows.push({ ...f, script: s.slice(2) })
   } catch (e) {
-    if ((e as { code?: string }).code === 'ERR_MODULE_NOT_FOUND' && String(e).includes(s.slice(2))) continue
     console.error(`[bench] ${s} failed:`, e)
     rows.push({ script: s.slice(2), name: 'failed', value: NaN, unit: String((e as Error).message ?? e).slice(0, 60) })
   }

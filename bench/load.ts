@@ -32,7 +32,7 @@ export async function run(): Promise<Figure[]> {
   const url = await benchDatabase()
   const port = await freePort()
   const child = spawn(process.execPath, ['--import', 'tsx', 'server/index.ts'], {
-    env: { ...process.env, DATABASE_URL: url, PORT: String(port), HOST: '127.0.0.1', JOBS: 'on', NODE_ENV: 'test', LOG_LEVEL: 'error', LOGIN_RATE_LIMIT: '1000000' },
+    env: { ...process.env, DATABASE_URL: url, PORT: String(port), HOST: '127.0.0.1', JOBS: 'on', NODE_ENV: 'test', LOG_LEVEL: 'error', LOGIN_RATE_LIMIT: '1000000', MESSAGE_RATE_LIMIT: '10000000', UPLOAD_RATE_LIMIT: '10000000' },
     stdio: ['ignore', 'pipe', 'inherit'],
   })
   const exited = new Promise((r) => child.once('exit', r))

@@ -1,6 +1,6 @@
 /**
  * The supervisor's metrics at 10 000 cases: invented history (server/seed/steps/0003-history.ts)
- * into the database at DATABASE_URL, then each GET /api/metrics/* service call timed over the whole
+ * into the bench database (DATABASE_URL, else a throwaway cluster: bench/lib/db.ts), then each GET /api/metrics/* service call timed over the whole
  * desk. Needs a throwaway database; the invented rows are removed afterwards.
  */
 import { randomBytes } from 'node:crypto'
@@ -10,7 +10,8 @@ export interface Figure { name: string; value: number; unit: string; target?: st
 const CASES = 10_000
 
 export async function run(): Promise<Figure[]> {
-  if (!process.env.DATABASE_URL) return [{ name: 'skipped: no DATABASE_URL', value: NaN, unit: '' }]
+  const { benchDatabase } = await import('./lib/db')
+  await benchDatabase()
   const { migrateUp } = await import('../server/db/migrate')
   const { closeDb } = await import('../server/db/sequelize')
   const { insertHistory } = await import('../server/seed/steps/0003-history')

@@ -1,5 +1,4 @@
 import express, { type RequestHandler } from 'express'
-import session from 'express-session'
 import helmet from 'helmet'
 import pg from 'pg'
 import { existsSync } from 'node:fs'
@@ -7,6 +6,7 @@ import { join, resolve } from 'node:path'
 import { config } from './config'
 import { configurePassport } from './auth/passport'
 import { SessionStore } from './auth/session-store'
+import { sessionMiddleware } from './auth/session-middleware'
 import { clientPage } from './middleware/client-page'
 import { csrfProtection } from './middleware/csrf'
 import { rejectNulCharacters } from './middleware/validate'
@@ -92,14 +92,10 @@ export function createApp(opts: { clientDir?: string | false } = {}): BuiltApp {
   const sessionPool = new pg.Pool({ connectionString: cfg.DATABASE_URL, max: 8, connectionTimeoutMillis: 3000 })
   sessionPool.on('error', () => {})
   const store = new SessionStore({ pool: sessionPool, tableName: 'session', createTableIfMissing: false, pruneSessionInterval: 15 * 60 })
-  const sessionMiddleware = session({
+  const sessions = sessionMiddleware({
     name: 'rw.sid',
     store,
     secret: cfg.SESSION_SECRET,
-    // rolling expiry (14 days after the last request); the store writes it at most every 10 minutes
-    resave: false,
-    saveUninitialized: false,
-    rolling: true,
     cookie: {
       httpOnly: true,
       sameSite: 'lax',
@@ -112,7 +108,7 @@ export function createApp(opts: { clientDir?: string | false } = {}): BuiltApp {
   const api = express.Router()
   api.use(express.json({ limit: '1mb' }))
   api.use(rejectNulCharacters)
-  api.use(sessionMiddleware)
+  api.use(sessions.api)
   api.use(sessionUser(passport))
   api.use(csrfProtection({ exempt: ['/inbound/'] }))
   api.use(apiRouter())
@@ -123,10 +119,11 @@ export function createApp(opts: { clientDir?: string | false } = {}): BuiltApp {
   if (clientDir && existsSync(join(clientDir, 'index.html'))) {
     app.use(express.static(clientDir, { index: false, maxAge: '1h' }))
     // the page carries who is signed in (./middleware/client-page.ts), read through the same session as the API
-    app.get(/^(?!\/api\/|\/socket\.io\/).*/, sessionMiddleware, sessionUser(passport), clientPage(join(clientDir, 'index.html')))
+    app.get(/^(?!\/api\/|\/socket\.io\/).*/, sessions.api, sessionUser(passport), clientPage(join(clientDir, 'index.html')))
   }
   app.use(errorHandler)
 
   // the worker pool runs the room engine for requests too (preview, save, submit): its threads end with the app
-  return { app, sessionMiddleware, close: async () => { await closeAnalysisPool(); await store.closeCache(); await closeQueueCache(); await sessionPool.end() } }
+  // sockets read the session through express-session itself (their handshakes are no API requests)
+  return { app, sessionMiddleware: sessions.full, close: async () => { await closeAnalysisPool(); await store.closeCache(); await closeQueueCache(); await sessionPool.end() } }
 }

@@ -83,11 +83,42 @@ const schema = z.object({
   FAKE_SMTP: onOff('FAKE_SMTP', 'off'),
   INBOUND_EMAIL_SECRET: z.string().min(16, 'INBOUND_EMAIL_SECRET must be at least 16 characters').default(DEV_INBOUND_SECRET),
   JOBS: onOff('JOBS', 'on'),
-  /** Failed sign-ins allowed per account in SIGN_IN_WINDOW_MINUTES (successful ones do not count). */
+  /**
+   * Failed sign-ins allowed per account from one client address in SIGN_IN_WINDOW_MINUTES (successful ones do
+   * not count); past it that address gets 429 for that account. Also where the account-wide back-off starts
+   * (failures from all addresses together, auth/session.ts).
+   */
   SIGN_IN_FAILURES_PER_ACCOUNT: whole('SIGN_IN_FAILURES_PER_ACCOUNT', 10, 1, 1_000_000),
   /** Failed password attempts allowed per client address in the window (high: one office shares an address). */
   LOGIN_RATE_LIMIT: whole('LOGIN_RATE_LIMIT', 100, 1, 1_000_000),
   SIGN_IN_WINDOW_MINUTES: whole('SIGN_IN_WINDOW_MINUTES', 15, 1, 24 * 60),
+  /**
+   * The longest wait (ms) before a sign-in attempt on an account that has SIGN_IN_FAILURES_PER_ACCOUNT or
+   * more failures from all addresses in the window (auth/session.ts signInBackoffMs: 250 ms, doubling): a
+   * back-off that slows guessing without locking the owner out. 0 turns it off.
+   */
+  SIGN_IN_BACKOFF_MAX_MS: whole('SIGN_IN_BACKOFF_MAX_MS', 5000, 0, 60_000),
+  /**
+   * Per signed-in user (middleware/user-rate-limit.ts), in USER_RATE_WINDOW_SECONDS, counted in PostgreSQL
+   * across nodes; 429 with Retry-After past them. Generous for real use (SECURITY.md says why each); the
+   * benches and `npm test` raise them through the environment only.
+   */
+  /** The window of the per-user limits, seconds (10 minutes by default; tests use a second or two). */
+  USER_RATE_WINDOW_SECONDS: whole('USER_RATE_WINDOW_SECONDS', 600, 1, 24 * 3600),
+  /** messages and notes posted (POST /api/cases/:id/messages) */
+  MESSAGE_RATE_LIMIT: whole('MESSAGE_RATE_LIMIT', 120, 1, 10_000_000),
+  /** files uploaded (POST /api/cases/:id/files) */
+  UPLOAD_RATE_LIMIT: whole('UPLOAD_RATE_LIMIT', 120, 1, 10_000_000),
+  /** engine previews of an unsaved room or plan (POST /api/rooms/preview, /api/plans/preview) */
+  PREVIEW_RATE_LIMIT: whole('PREVIEW_RATE_LIMIT', 600, 1, 10_000_000),
+  /** subwoofer searches, up to 20 s of a worker each (POST /api/rooms/subwoofers) */
+  SUBWOOFER_RATE_LIMIT: whole('SUBWOOFER_RATE_LIMIT', 30, 1, 10_000_000),
+  /** full-text searches of the queue (GET /api/cases?q=…) */
+  SEARCH_RATE_LIMIT: whole('SEARCH_RATE_LIMIT', 900, 1, 10_000_000),
+  /** room saves, each an engine run and a new revision (POST /api/rooms, PUT /api/rooms/:id) */
+  ROOM_SAVE_RATE_LIMIT: whole('ROOM_SAVE_RATE_LIMIT', 120, 1, 10_000_000),
+  /** plan reports made as PDF (GET /api/cases/:id/plans/:version/report.pdf) */
+  REPORT_RATE_LIMIT: whole('REPORT_RATE_LIMIT', 60, 1, 10_000_000),
   /** Longest one SQL statement may run, ms: requests fail fast instead of piling up. Benchmarks raise it for bulk loads. */
   DB_STATEMENT_TIMEOUT_MS: whole('DB_STATEMENT_TIMEOUT_MS', 15_000, 1000, 3_600_000),
   /**

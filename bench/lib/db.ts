@@ -24,6 +24,10 @@ export function benchDatabase(): Promise<string> {
       process.env.STORAGE_DIR ??= join(home, 'storage')
     }
     process.env.LOGIN_RATE_LIMIT ??= '1000000'
+    process.env.MESSAGE_RATE_LIMIT ??= '10000000' // the bench loads one user far past a person's limit
+    process.env.UPLOAD_RATE_LIMIT ??= '10000000' // the bench loads one user far past a person's limit
+    process.env.PREVIEW_RATE_LIMIT ??= '10000000' // the bench loads one user far past a person's limit
+    process.env.SEARCH_RATE_LIMIT ??= '10000000' // the bench loads one user far past a person's limit
     process.env.JOBS ??= 'off'
     const { migrateUp } = await import('../../server/db/migrate')
     await migrateUp()

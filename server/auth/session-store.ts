@@ -24,7 +24,16 @@ export const TOUCH_EVERY_MS = 10 * 60 * 1000
 export const sessionCacheMs = () => config().SESSION_CACHE_SECONDS * 1000
 const SESSION_CACHE_MAX = 20_000
 
-interface Cached { json: string; expireMs: number; user: User | null; userId: string; at: number }
+interface Cached { json: string; body: string; expireMs: number; user: User | null; userId: string; at: number }
+
+/** A session's data without its cookie, as text: what tells whether a request changed the session. */
+export function sessionBody(sess: object): string {
+  const { cookie: _cookie, ...rest } = sess as { cookie?: unknown }
+  return JSON.stringify(rest)
+}
+
+/** A signed-in session answered from this node's memory: a fresh object, and its body to compare against at the end. */
+export interface MemorySession { sess: session.SessionData; body: string }
 
 // The signed-in user read in the same statement as the session, keyed by the session's `passport` object
 // (express-session keeps that object when it builds req.session, so the deserializer finds it again).
@@ -113,7 +122,7 @@ export class SessionStore extends PgStore {
   }
 
   /** The session from memory when this node may answer from it, else undefined. */
-  private fromMemory(sid: string): session.SessionData | undefined {
+  private fromMemory(sid: string): MemorySession | undefined {
     const c = this.cache.get(sid)
     if (!c) return undefined
     const now = Date.now()
@@ -124,20 +133,26 @@ export class SessionStore extends PgStore {
     // a fresh object per request (passport and express-session change it in place)
     const sess = JSON.parse(c.json) as Row['sess']
     if (sess.passport && typeof sess.passport === 'object') usersOfSessions.set(sess.passport, c.user)
-    return sess
+    return { sess, body: c.body }
+  }
+
+  /**
+   * The signed-in session from this node's memory, once every change committed before the call has been
+   * applied (db/change-feed.ts); undefined when it is not held or may be stale (the caller reads it the usual way).
+   */
+  fromMemoryCaughtUp(sid: string, fn: (hit: MemorySession | undefined) => void): void {
+    if (!this.cache.has(sid)) return fn(undefined)
+    caughtUp().then((ok) => fn(ok ? this.fromMemory(sid) : undefined), () => fn(undefined))
+  }
+
+  /** Whether a rolling session's stored expiry would move now (see touch): only then is it written, and its cookie sent again. */
+  touchDue(sid: string, nextMs: number): boolean {
+    const last = this.known.get(sid)
+    return last === undefined || nextMs - last >= TOUCH_EVERY_MS
   }
 
   override get(sid: string, fn: Callback<session.SessionData | null>): void {
-    if (this.cache.has(sid)) {
-      // every change committed before this request is applied first (db/change-feed.ts)
-      caughtUp().then((ok) => {
-        const sess = ok ? this.fromMemory(sid) : undefined
-        if (sess) return fn(null, sess)
-        this.read(sid, fn)
-      }, () => this.read(sid, fn))
-      return
-    }
-    this.read(sid, fn)
+    this.fromMemoryCaughtUp(sid, (hit) => (hit ? fn(null, hit.sess) : this.read(sid, fn)))
   }
 
   private read(sid: string, fn: Callback<session.SessionData | null>): void {
@@ -157,7 +172,7 @@ export class SessionStore extends PgStore {
         if (sess.passport && typeof sess.passport === 'object' && sess.passport.user) {
           const user = row.id && row.active ? { id: row.id, email: row.email, name: row.name, role: row.role } : null
           // only what no change overtook, and only while changes can reach this node
-          if (user && sessionCacheMs() > 0 && feedLive() && generation === this.generation) this.keep(sid, { json: JSON.stringify(sess), expireMs, user, userId: user.id, at: Date.now() })
+          if (user && sessionCacheMs() > 0 && feedLive() && generation === this.generation) this.keep(sid, { json: JSON.stringify(sess), body: sessionBody(sess), expireMs, user, userId: user.id, at: Date.now() })
           usersOfSessions.set(sess.passport, user)
         }
         fn(null, sess)
@@ -186,8 +201,7 @@ export class SessionStore extends PgStore {
 
   override touch(sid: string, sess: session.SessionData, fn?: (err?: unknown) => void): void {
     const next = sess.cookie?.expires ? new Date(sess.cookie.expires).getTime() : NaN
-    const last = this.known.get(sid)
-    if (Number.isFinite(next) && last !== undefined && next - last < TOUCH_EVERY_MS) return fn?.()
+    if (Number.isFinite(next) && !this.touchDue(sid, next)) return fn?.()
     super.touch(sid, sess, (err?: unknown) => {
       if (!err && Number.isFinite(next)) {
         this.remember(sid, next)

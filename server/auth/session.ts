@@ -1,6 +1,6 @@
 import type { Request, RequestHandler } from 'express'
 import type passport from 'passport'
-import { rateLimit } from 'express-rate-limit'
+import { ipKeyGenerator, rateLimit } from 'express-rate-limit'
 import { AppError } from '../errors'
 import { config } from '../config'
 import { PostgresRateLimitStore } from '../middleware/rate-limit-store'
@@ -38,17 +38,69 @@ export function passwordAttemptLimiter(opts: { countSuccess?: boolean } = {}): R
   return rateLimit({ ...tooMany, store: new PostgresRateLimitStore(opts.countSuccess ? 'reset-address' : 'password-address'), skipSuccessfulRequests: !opts.countSuccess, windowMs: config().SIGN_IN_WINDOW_MINUTES * 60_000, limit: config().LOGIN_RATE_LIMIT, identifier: 'address' })
 }
 
+/** The e-mail a sign-in names, as the account key (whether or not such an account exists, so no answer tells). */
+const accountOf = (req: Request) => String((req.body as { email?: unknown } | undefined)?.email ?? '').trim().toLowerCase()
+
 /**
- * The limit on FAILED sign-ins per account (the e-mail given, whether or not it exists, so the answer tells
- * nothing): SIGN_IN_FAILURES_PER_ACCOUNT in SIGN_IN_WINDOW_MINUTES, from any number of addresses.
+ * The lockout on FAILED sign-ins per account AND client address: SIGN_IN_FAILURES_PER_ACCOUNT in
+ * SIGN_IN_WINDOW_MINUTES from one address, then 429 for that account from that address only. Keyed by
+ * both, so someone who knows an address cannot lock its owner out from elsewhere (a lockout per account
+ * alone is a denial of service anyone can start; OWASP Authentication Cheat Sheet, "Account Lockout").
+ * Guessing from many addresses is bounded by the per-address limit (passwordAttemptLimiter) and slowed by
+ * the account-wide back-off below.
  */
-export function accountFailureLimiter(): RequestHandler {
+export function accountAddressFailureLimiter(): RequestHandler {
   return rateLimit({
+    ...tooMany,
+    store: new PostgresRateLimitStore('signin-account-address'),
+    windowMs: config().SIGN_IN_WINDOW_MINUTES * 60_000,
+    limit: config().SIGN_IN_FAILURES_PER_ACCOUNT,
+    identifier: 'account-address',
+    keyGenerator: (req) => `account:${accountOf(req)}\naddress:${ipKeyGenerator(req.ip ?? '')}`,
+  })
+}
+
+/** First step of the account-wide back-off, ms; it doubles with every further failure. */
+export const SIGN_IN_BACKOFF_BASE_MS = 250
+
+/**
+ * The wait before a sign-in attempt on an account that already failed `failures` times in the window from
+ * any address: none up to `threshold` failures, then 250 ms doubling with each failure, at most `maxMs`.
+ * Exponential back-off instead of a lockout (OWASP Authentication Cheat Sheet, "Account Lockout"): the
+ * owner still signs in, only more slowly, however many addresses guess at the account.
+ */
+export function signInBackoffMs(failures: number, threshold: number, maxMs: number): number {
+  if (failures < threshold || maxMs <= 0) return 0
+  const steps = Math.min(failures - threshold, 30)
+  return Math.min(maxMs, SIGN_IN_BACKOFF_BASE_MS * 2 ** steps)
+}
+
+interface AccountFailures { accountFailures?: { used: number } }
+
+/**
+ * Counts FAILED sign-ins per account from every address (a success gives its attempt back) and holds each
+ * new attempt for signInBackoffMs (SIGN_IN_FAILURES_PER_ACCOUNT, SIGN_IN_BACKOFF_MAX_MS) before its password
+ * is checked; never refuses by itself. The wait is a timer: no worker thread or database connection is held
+ * meanwhile (the client's own HTTP connection is).
+ */
+export function accountBackoff(): RequestHandler[] {
+  const counter = rateLimit({
     ...tooMany,
     store: new PostgresRateLimitStore('signin-account'),
     windowMs: config().SIGN_IN_WINDOW_MINUTES * 60_000,
-    limit: config().SIGN_IN_FAILURES_PER_ACCOUNT,
+    // only counts: the back-off below acts on the count, this limiter never refuses
+    limit: Number.MAX_SAFE_INTEGER,
+    standardHeaders: false,
     identifier: 'account',
-    keyGenerator: (req) => `account:${String((req.body as { email?: unknown } | undefined)?.email ?? '').trim().toLowerCase()}`,
+    requestPropertyName: 'accountFailures',
+    keyGenerator: (req) => `account:${accountOf(req)}`,
   })
+  const wait: RequestHandler = (req, _res, next) => {
+    const used = (req as Request & AccountFailures).accountFailures?.used ?? 1
+    // `used` counts this attempt too: the failures before it are one fewer
+    const ms = signInBackoffMs(used - 1, config().SIGN_IN_FAILURES_PER_ACCOUNT, config().SIGN_IN_BACKOFF_MAX_MS)
+    if (ms <= 0) return next()
+    setTimeout(next, ms)
+  }
+  return [counter, wait]
 }

@@ -45,8 +45,9 @@ function flush(c: pg.Client): void {
   const batch = waiting
   waiting = []
   syncing = true
-  // raw SQL: a bare round trip on the LISTEN connection (a barrier for notifications), no table involved
-  c.query('SELECT 1').then(
+  // raw SQL: a bare round trip on the LISTEN connection (a barrier for notifications), no table involved: the empty
+  // query, which PostgreSQL answers without parsing or planning anything (EmptyQueryResponse, then ReadyForQuery)
+  c.query('').then(
     () => {
       syncing = false
       const ok = up && client === c

@@ -42,6 +42,13 @@ export const maybeAt = () => optional(DataTypes.DATE)
 export const ref = (table: string, onDelete: 'CASCADE' | 'SET NULL' | 'RESTRICT', notNull = false) =>
   ({ type: DataTypes.UUID, allowNull: !notNull, references: { model: table, key: 'id' }, onDelete })
 
+/** A person's e-mail, name and role (models): a user's, and the same for the account a team invitation will become. */
+export const personColumns = () => ({
+  email: required(DataTypes.STRING(254)),
+  name: required(DataTypes.STRING(120)),
+  role: required(DataTypes.ENUM('listener', 'advisor', 'supervisor')),
+})
+
 /** An index key in descending order. */
 export const desc = (name: string) => ({ name, order: 'DESC' as const })
 /** The index expression `lower(column)`. */

@@ -47,6 +47,13 @@ async function main(): Promise<number> {
         TEST_TMP: home,
         LOGIN_RATE_LIMIT: process.env.LOGIN_RATE_LIMIT ?? '100000',
         SIGN_IN_FAILURES_PER_ACCOUNT: process.env.SIGN_IN_FAILURES_PER_ACCOUNT ?? '100000',
+        MESSAGE_RATE_LIMIT: process.env.MESSAGE_RATE_LIMIT ?? '10000000',
+        UPLOAD_RATE_LIMIT: process.env.UPLOAD_RATE_LIMIT ?? '10000000',
+        PREVIEW_RATE_LIMIT: process.env.PREVIEW_RATE_LIMIT ?? '10000000',
+        SUBWOOFER_RATE_LIMIT: process.env.SUBWOOFER_RATE_LIMIT ?? '10000000',
+        SEARCH_RATE_LIMIT: process.env.SEARCH_RATE_LIMIT ?? '10000000',
+        ROOM_SAVE_RATE_LIMIT: process.env.ROOM_SAVE_RATE_LIMIT ?? '10000000',
+        REPORT_RATE_LIMIT: process.env.REPORT_RATE_LIMIT ?? '10000000',
       },
     })
     let passed = 0, failed = 0, skipped = 0

@@ -1,4 +1,4 @@
-import { accountFailureLimiter, passwordAttemptLimiter, signIn } from '../auth/session'
+import { accountAddressFailureLimiter, accountBackoff, passwordAttemptLimiter, signIn } from '../auth/session'
 import { Router } from 'express'
 import passport from 'passport'
 import { validate } from '../middleware/validate'
@@ -14,13 +14,15 @@ import { AppError } from '../errors'
 export function authRouter(): Router {
   const router = Router()
   const limiter = passwordAttemptLimiter()
-  const perAccount = accountFailureLimiter()
+  // a lockout per account and address, and a back-off per account (auth/session.ts)
+  const perAccountAddress = accountAddressFailureLimiter()
+  const perAccount = accountBackoff()
   // Its own budget per client address, so asking for reset links does not eat into sign-in attempts (and the reverse).
   const resetLimiter = passwordAttemptLimiter({ countSuccess: true })
 
   router.get('/csrf', (req, res) => res.json({ token: csrfToken(req) }))
 
-  router.post('/login', limiter, perAccount, validate(loginSchema), (req, res, next) => {
+  router.post('/login', limiter, perAccountAddress, ...perAccount, validate(loginSchema), (req, res, next) => {
     passport.authenticate('local', { session: false }, (err: unknown, user: User | false) => {
       if (err) return next(err)
       if (!user) return next(new AppError('That e-mail and password do not match an account', { status: 401, code: 'bad_credentials' }))

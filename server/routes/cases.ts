@@ -10,14 +10,18 @@ import { listEvents } from '../data/events'
 import { notFound } from '../errors'
 import { teamQueue } from '../services/queue'
 import { afterQuerySchema, idParamsSchema } from '../../shared/schemas/params'
+import { userRateLimit } from '../middleware/user-rate-limit'
 
 const afterQuery = afterQuerySchema
 const id = validate(idParamsSchema, 'params')
 
 export function casesRouter(): Router {
   const router = Router()
+  // only the team's full-text searches count (a listener's list, or a queue page without `q`, is cheap)
+  const searches = userRateLimit('search', { skip: (req) => req.user?.role === 'listener' || !String(req.query.q ?? '').trim() })
+  const posts = userRateLimit('messages')
   // Listeners get their own cases; the team gets the queue, paged, sorted and filtered on the server.
-  router.get('/', requireSignedIn, async (req, res) => {
+  router.get('/', requireSignedIn, searches, async (req, res) => {
     const user = currentUser(req)
     if (user.role === 'listener') {
       const rows = await listMyCases(user)
@@ -49,7 +53,7 @@ export function casesRouter(): Router {
     res.json({ events: await listEvents(String(req.params.id), { afterId: res.locals.query.after, audience: audienceOf(user) }) })
   })
   router.get('/:id/messages', requireSignedIn, id, async (req, res) => res.json({ messages: await getThread(currentUser(req), String(req.params.id)) }))
-  router.post('/:id/messages', requireSignedIn, id, validate(messageSchema), async (req, res) =>
+  router.post('/:id/messages', requireSignedIn, id, posts, validate(messageSchema), async (req, res) =>
     res.status(201).json(await postMessage(currentUser(req), String(req.params.id), res.locals.body)))
   return router
 }

@@ -3,6 +3,7 @@ import { z } from 'zod'
 import { requireSignedIn, requireRole, currentUser } from '../middleware/guards'
 import { validate } from '../middleware/validate'
 import { uploadFile, uploadedFile } from '../uploads'
+import { userRateLimit } from '../middleware/user-rate-limit'
 import { addCaseFile, caseFiles, checkCaseAcceptsFiles, openFile, requeueAnalysis } from '../services/files'
 
 const idParam = z.object({ id: z.string().uuid() })
@@ -10,9 +11,10 @@ const idParam = z.object({ id: z.string().uuid() })
 /** Uploads on a case (mounted under /cases) and downloads by file id (under /files). */
 export function caseFilesRouter(): Router {
   const router = Router({ mergeParams: true })
+  const uploads = userRateLimit('uploads')
   router.get('/:id/files', requireSignedIn, validate(idParam, 'params'), async (req, res) => res.json({ files: await caseFiles(currentUser(req), res.locals.params.id) }))
   // The case is checked before any byte is stored, so a stranger's upload never touches storage.
-  router.post('/:id/files', requireSignedIn, validate(idParam, 'params'), async (req, _res, next) => {
+  router.post('/:id/files', requireSignedIn, validate(idParam, 'params'), uploads, async (req, _res, next) => {
     await checkCaseAcceptsFiles(currentUser(req), String(req.params.id))
     next()
   }, uploadFile(), async (req, res) =>

@@ -13,10 +13,10 @@ import { handleInboundEmail } from '../mail/inbound'
 export const INBOUND_SECRET_HEADER = 'X-Roomwright-Inbound-Secret'
 
 const digest = (s: string) => createHash('sha256').update(s, 'utf8').digest()
-/** The shared secret of the inbound webhook, compared in constant time (equal-length digests). */
+/** Whether a request carries the shared secret of the inbound webhook, compared in constant time (equal-length digests). */
+const hasInboundSecret = (given: string | undefined) => !!given && timingSafeEqual(digest(given), digest(config().INBOUND_EMAIL_SECRET))
 const requireInboundSecret: RequestHandler = (req, _res, next) => {
-  const given = req.get(INBOUND_SECRET_HEADER)
-  if (!given || !timingSafeEqual(digest(given), digest(config().INBOUND_EMAIL_SECRET))) {
+  if (!hasInboundSecret(req.get(INBOUND_SECRET_HEADER))) {
     return next(new AppError('The inbound e-mail secret is missing or wrong', { status: 401, code: 'bad_inbound_secret' }))
   }
   next()
@@ -24,7 +24,8 @@ const requireInboundSecret: RequestHandler = (req, _res, next) => {
 
 /**
  * Wrong or missing secrets per client address, counted in PostgreSQL across nodes (LOGIN_RATE_LIMIT in
- * SIGN_IN_WINDOW_MINUTES): only 401s count, so a provider posting with the right secret is never limited.
+ * SIGN_IN_WINDOW_MINUTES). A request with the right secret is skipped before it is counted, so a
+ * provider posting many e-mails at once is never limited, not even while its requests are in flight.
  */
 const inboundSecretFailures = () => rateLimit({
   store: new PostgresRateLimitStore('inbound-secret'),
@@ -32,8 +33,7 @@ const inboundSecretFailures = () => rateLimit({
   limit: config().LOGIN_RATE_LIMIT,
   standardHeaders: 'draft-8',
   legacyHeaders: false,
-  skipSuccessfulRequests: true,
-  requestWasSuccessful: (_req, res) => res.statusCode !== 401,
+  skip: (req) => hasInboundSecret(req.get(INBOUND_SECRET_HEADER)),
   handler: (_req, _res, next) => next(new AppError('Too many requests with a wrong inbound secret; wait a few minutes', { status: 429, code: 'rate_limited' })),
 })
 

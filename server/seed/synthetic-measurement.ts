@@ -1,7 +1,7 @@
 import * as wavefileModule from 'wavefile'
 import { computeRoomAnalysis } from '../../shared/acoustics'
 import { butterworthBandpass, filterSos, octaveBands } from '../../shared/signal/bands'
-import type { Room } from '../../shared/schemas/room'
+import type { RoomDescription } from '../../shared/acoustics'
 
 const ns = wavefileModule as unknown as { WaveFile?: new () => WaveLike; default?: { WaveFile: new () => WaveLike } }
 type WaveLike = { fromScratch(ch: number, sr: number, depth: string, samples: Float64Array | Float64Array[]): void; toBuffer(): Uint8Array }
@@ -23,7 +23,7 @@ function rng(seed: number) {
  * reverberation time. Good enough to exercise the measurement analysis with figures that match the
  * room's triage; a listener's real measurement will differ.
  */
-export function syntheticImpulseResponse(room: Room, speakerLabel: string, opts: { sampleRate?: number; seconds?: number; seed?: number } = {}): Uint8Array {
+export function syntheticImpulseResponse(room: RoomDescription, speakerLabel: string, opts: { sampleRate?: number; seconds?: number; seed?: number } = {}): Uint8Array {
   const sr = opts.sampleRate ?? 48_000
   const n = Math.round((opts.seconds ?? 1.5) * sr)
   const a = computeRoomAnalysis(room)

@@ -71,6 +71,9 @@ export const SETUP_FLAG_IDS = [
 const m2 = (v: number) => `${v.toFixed(2)} m`
 const hz = (v: number) => `${Math.round(v)} Hz`
 const cap = (t: string) => t.charAt(0).toUpperCase() + t.slice(1)
+/** An opening kind as words ('open-doorway' → 'open doorway') and with its article ('an alcove'). */
+const openingWords = (kind: string) => kind.replace(/-/g, ' ')
+const withArticle = (words: string) => `${/^[aeiou]/i.test(words) ? 'an' : 'a'} ${words}`
 const SEVERITY_RANK = { problem: 0, warning: 1, info: 2 } as const
 
 /** Thresholds (common practice, no source unless named). */
@@ -269,7 +272,8 @@ export function setupFlags(input: SetupFlagInput): SetupFlag[] {
 
   // --- openings ------------------------------------------------------------------------------------
   const walls: Surface[] = ['front', 'back', 'left', 'right']
-  const hit: string[] = []
+  // each opening (kind on a wall) is named once, with the speakers whose reflection it takes
+  const hit = new Map<string, number[]>()
   for (const [i, p] of speakers.entries()) {
     if (distance(p, seat) === 0) continue
     for (const wall of walls) {
@@ -280,15 +284,19 @@ export function setupFlags(input: SetupFlagInput): SetupFlag[] {
       for (const o of openings) {
         if (o.wall !== wall) continue
         if (overlaps(o.from, o.to, lo[ua], hi[ua]) && overlaps(o.bottom, o.top, lo[2], hi[2])) {
-          const text = `the ${o.kind} on the ${wall} wall (${names[i]})`
-          if (!hit.includes(text)) hit.push(text)
+          const where = `the ${openingWords(o.kind)} on the ${wall} wall`
+          const from = hit.get(where) ?? []
+          if (!from.includes(i)) from.push(i)
+          hit.set(where, from)
         }
       }
     }
   }
-  if (hit.length) {
+  if (hit.size) {
+    const whose = (from: number[]) => (speakers.length === 2 && from.length === 2 ? 'both speakers' : from.map((i) => names[i]).join(' and '))
+    const said = [...hit].map(([where, from]) => `${where} (${whose(from)})`)
     add('opening-in-reflection-zone', 'warning',
-      `A first reflection reaches your seat from ${hit.join(', ')}. Glass reflects strongly and an open doorway or alcove returns nothing, so the two sides of the stereo image no longer match. A curtain, a panel or moving the seat slightly can even this out.`)
+      `A first reflection reaches your seat from ${said.join(', ')}. Glass reflects strongly and an open doorway or alcove returns nothing, so the two sides of the stereo image no longer match. A curtain, a panel or moving the seat slightly can even this out.`)
   }
   const frontZone = seat.x + 0.5
   const sideOpenings = (wall: 'left' | 'right') => openings.filter((o) => o.wall === wall && o.from < frontZone && o.to - o.from >= 0.3)
@@ -299,7 +307,7 @@ export function setupFlags(input: SetupFlagInput): SetupFlag[] {
     ...rights.filter((o) => !lefts.some((l) => overlaps(o.from, o.to, l.from, l.to))),
   ]
   if (unmatched.length) {
-    const kinds2 = unmatched.map((o) => `a ${o.kind} on the ${o.wall} wall (${m2(o.from)}–${m2(o.to)} from the front)`)
+    const kinds2 = unmatched.map((o) => `${withArticle(openingWords(o.kind))} on the ${o.wall} wall (${m2(o.from)}–${m2(o.to)} from the front)`)
     add('opening-asymmetry', unmatched.some((o) => materialForOpening(o.kind) === 'open-doorway' || o.kind === 'alcove') ? 'warning' : 'info',
       `Between the speakers and your seat there is ${kinds2.join(' and ')} with nothing matching it on the other side. The two sides of the room then reflect and hold bass differently, which can pull the stereo image sideways. A curtain or panel on the opposite side, or over the opening, restores the balance.`)
   }

@@ -17,7 +17,7 @@ import { speedOfSound } from './units'
 import { assertCelsius, assertPointInRoom, assertRoom } from './validate'
 
 /** Version of the engine's formulas and output shape; stored beside every snapshot. */
-export const ENGINE_VERSION = '1.2.0'
+export const ENGINE_VERSION = '1.2.1'
 
 export interface LabelledPoint extends Point {
   label: string

@@ -50,7 +50,7 @@ export function measurementHint(files: readonly MeasurementSeen[]): MeasurementH
 
   const readable = files.filter((f) => f.status !== 'failed')
   if (readable.length === 0) {
-    return { state: 'unreadable', received, next: 'None of them could be read: the reason is under each file below. Export it again as the measuring guide describes and send it once more.' }
+    return { state: 'unreadable', received, next: 'None of your measurements could be read: the reason is under each file below. Export each file again as the measuring guide describes and send it once more.' }
   }
   const impulses = readable.filter((f) => kindOf(f) === 'impulse-response')
   if (impulses.length === 0) {

@@ -13,7 +13,7 @@ import type { Browser, BrowserContext, Page } from 'playwright-core'
 import { AxeBuilder } from '@axe-core/playwright'
 import { randomBytes } from 'node:crypto'
 import { QueryTypes } from 'sequelize'
-import { launchBrowser, signInAs, startProduct } from '../helpers/browser'
+import { DEMO_EMAILS, DESKTOP, PHONE, launchBrowser, signInAs, startProduct } from '../helpers/browser'
 import { makeUser } from '../helpers/api'
 import { db } from '../../server/db/sequelize'
 import { seedDemo } from '../../server/seed'
@@ -25,13 +25,6 @@ import type { RunningServer } from '../../server/server'
 
 type Who = 'signed-out' | Role
 const ROLES: readonly Role[] = ['listener', 'advisor', 'supervisor']
-const DEMO: Record<Role, string> = {
-  listener: 'listener@roomwright.test',
-  advisor: 'advisor@roomwright.test',
-  supervisor: 'supervisor@roomwright.test',
-}
-const DESKTOP = { width: 1280, height: 900 }
-const PHONE = { width: 390, height: 844 }
 
 let server: RunningServer
 let browser: Browser
@@ -54,10 +47,10 @@ beforeAll(async () => {
     SELECT c.id AS case_id, p.version, c.room_id FROM cases c
       JOIN users u ON u.id = c.listener_id
       JOIN treatment_plans p ON p.case_id = c.id AND p.sent_at IS NOT NULL
-     WHERE u.email = $1 AND c.status = 'plan_sent' ORDER BY p.version DESC LIMIT 1`, [DEMO.listener])
+     WHERE u.email = $1 AND c.status = 'plan_sent' ORDER BY p.version DESC LIMIT 1`, [DEMO_EMAILS.listener])
   const [review] = await q<{ id: string }>(`
     SELECT c.id FROM cases c JOIN users u ON u.id = c.assignee_id
-     WHERE u.email = $1 AND c.status = 'in_review' ORDER BY c.created_at LIMIT 1`, [DEMO.advisor])
+     WHERE u.email = $1 AND c.status = 'in_review' ORDER BY c.created_at LIMIT 1`, [DEMO_EMAILS.advisor])
   if (!plan || !review) throw new Error('the demo scenario lacks the listener\'s plan_sent case or the advisor\'s case in review')
   const inviter = await makeUser('supervisor', 'Accessibility Inviter')
   const { token } = await invite(inviter, { email: `a11y-${randomBytes(4).toString('hex')}@example.test`, name: 'Noor Vandersteen', role: 'advisor' })
@@ -130,7 +123,7 @@ async function contextFor(who: Who, viewport: { width: number; height: number })
     page.setDefaultTimeout(45_000)
     return { context, page }
   }
-  const page = await signInAs(context, server.url, DEMO[who], DEMO_PASSWORD)
+  const page = await signInAs(context, server.url, DEMO_EMAILS[who], DEMO_PASSWORD)
   await page.waitForURL((u) => !u.pathname.startsWith('/sign-in'), { timeout: 45_000 })
   return { context, page }
 }
@@ -219,7 +212,7 @@ describe('the main flows work with the keyboard alone', () => {
     const page = await context.newPage()
     await page.goto(`${server.url}/sign-in`, { waitUntil: 'networkidle' })
     expect(await focusMatches(page, '[data-testid="signin-email"] input'), `focus is on ${await focused(page)}`).toBe(true)
-    await page.keyboard.type(DEMO.listener)
+    await page.keyboard.type(DEMO_EMAILS.listener)
     await page.keyboard.press('Tab')
     expect(await focusMatches(page, '[data-testid="signin-password"] input'), `focus is on ${await focused(page)}`).toBe(true)
     await page.keyboard.type(DEMO_PASSWORD)
@@ -398,38 +391,38 @@ describe('what has keyboard focus shows a visible ring of sufficient contrast', 
     await context.close()
   })
 
-  it('on the queue: a button, the search field, a clickable row, the navigation', async () => {
-    const { context, page } = await contextFor('advisor', DESKTOP)
-    await open(page, '/queue')
-    await tabTo(page, '[data-testid="nav-queue"]')
-    await expectRing(page, 'navigation link')
-    await tabTo(page, '[data-testid="queue-search"] input')
-    await expectRing(page, 'field')
-    await tabTo(page, '[data-testid="queue-row"] a')
-    await expectRing(page, 'clickable table row')
-    await tabTo(page, '[data-testid="claim-button"], [data-testid="queue-row"] button')
-    await expectRing(page, 'button')
+  /** On `path`, tabs to each stop in turn and checks the ring on it; then closes the context. */
+  const ringsAlong = async ({ context, page }: { context: BrowserContext; page: Page }, path: string, stops: [selector: string, kind: string][]) => {
+    await open(page, path)
+    for (const [selector, kind] of stops) {
+      await tabTo(page, selector)
+      await expectRing(page, kind)
+    }
     await context.close()
+  }
+
+  it('on the queue: a button, the search field, a clickable row, the navigation', async () => {
+    await ringsAlong(await contextFor('advisor', DESKTOP), '/queue', [
+      ['[data-testid="nav-queue"]', 'navigation link'],
+      ['[data-testid="queue-search"] input', 'field'],
+      ['[data-testid="queue-row"] a', 'clickable table row'],
+      ['[data-testid="claim-button"], [data-testid="queue-row"] button', 'button'],
+    ])
   })
 
   it('on the dashboard: the chart toggles and the download buttons', async () => {
-    const { context, page } = await contextFor('supervisor', DESKTOP)
-    await open(page, '/dashboard')
-    await tabTo(page, '[data-testid="view-table"]')
-    await expectRing(page, 'chart toggle')
-    await tabTo(page, '[data-testid="download-csv"]')
-    await expectRing(page, 'button')
-    await context.close()
+    await ringsAlong(await contextFor('supervisor', DESKTOP), '/dashboard', [
+      ['[data-testid="view-table"]', 'chart toggle'],
+      ['[data-testid="download-csv"]', 'button'],
+    ])
   })
 
   it('in the dark theme too', async () => {
-    const { context, page } = await contextFor('advisor', DESKTOP)
-    await page.emulateMedia({ colorScheme: 'dark' }) // no saved choice: the system's dark preference applies
-    await open(page, '/queue')
-    await tabTo(page, '[data-testid="queue-row"] a')
-    await expectRing(page, 'clickable table row (dark)')
-    await tabTo(page, '[data-testid="claim-button"], [data-testid="queue-row"] button')
-    await expectRing(page, 'button (dark)')
-    await context.close()
+    const opened = await contextFor('advisor', DESKTOP)
+    await opened.page.emulateMedia({ colorScheme: 'dark' }) // no saved choice: the system's dark preference applies
+    await ringsAlong(opened, '/queue', [
+      ['[data-testid="queue-row"] a', 'clickable table row (dark)'],
+      ['[data-testid="claim-button"], [data-testid="queue-row"] button', 'button (dark)'],
+    ])
   })
 })

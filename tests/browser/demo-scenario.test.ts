@@ -5,6 +5,7 @@ import { screenshotDir, signInAs, useProduct } from '../helpers/browser'
 import { db } from '../../server/db/sequelize'
 import { seedDemo } from '../../server/seed'
 import { DEMO_PASSWORD } from '../../server/seed/people'
+import { snippetPlaceholders } from '../../shared/schemas/snippet'
 
 const q = <T extends object>(sql: string, bind: unknown[] = []) => db().query<T>(sql, { bind, type: QueryTypes.SELECT })
 
@@ -41,6 +42,22 @@ describe('the demo scenario — every seeded case is consistent with its status'
     expect(claims).toEqual([])
   })
 
+  it('the seeded plans seat the listener clear of the back wall, and no setup check names one opening twice', async () => {
+    // the seat-near-wall check's 0.6 m (shared/acoustics/setup-flags.ts, common practice, no source)
+    const near = await q<{ id: string; gap: number }>(`
+      SELECT p.id, (v.body->>'length')::float - (p.body->'seat'->>'x')::float AS gap
+        FROM treatment_plans p JOIN room_revisions v ON v.room_id = p.room_id AND v.revision = p.room_revision
+       WHERE jsonb_typeof(p.body->'seat') = 'object' AND (v.body->>'length')::float - (p.body->'seat'->>'x')::float < 0.6`)
+    expect(near).toEqual([])
+    const seated = await q<{ n: number }>(`SELECT count(*)::int AS n FROM treatment_plans WHERE jsonb_typeof(body->'seat') = 'object'`)
+    expect(seated[0].n).toBeGreaterThan(0)
+    const snaps = await q<{ flags: { id: string; message: string }[] }>(`SELECT body->'flags' AS flags FROM triage_snapshots`)
+    const openings = snaps.flatMap((s) => s.flags ?? []).filter((f) => f.id === 'opening-in-reflection-zone')
+    expect(openings.length).toBeGreaterThan(0)
+    const twice = openings.filter((f) => { const said = f.message.match(/the [a-z ]+ on the [a-z]+ wall/g) ?? []; return new Set(said).size !== said.length })
+    expect(twice.map((f) => f.message)).toEqual([])
+  })
+
   it('the queue has variety: the open cases span rooms of different sizes and different flags', async () => {
     const top = await q<{ dims: string; flags: string; title: string }>(`
       SELECT concat(v.body->>'length', 'x', v.body->>'width') AS dims, array_to_string(c.flag_ids, ',') AS flags, c.title
@@ -68,7 +85,14 @@ describe('the demo scenario — every seeded case is consistent with its status'
     const plan = page.getByTestId('plan-for-listener')
     await expect.poll(() => plan.textContent(), { timeout: 30_000 }).toMatch(/What to do, in this order/)
     await expect.poll(() => plan.textContent()).toMatch(/corner/i)
-    await expect.poll(() => page.getByTestId('analysis-status-done').count(), { timeout: 30_000 }).toBeGreaterThanOrEqual(2)
+    await expect.poll(() => page.getByTestId('analysis-status-done').count(), { timeout: 30_000 }).toBeGreaterThanOrEqual(3)
+    // before and after: a measurement from before the plan and the one made after the traps, not one file twice
+    await page.reload()
+    const before = page.getByTestId('follow-up-before')
+    const after = page.getByTestId('follow-up-after')
+    await expect.poll(() => after.textContent(), { timeout: 30_000 }).toMatch(/after-the-traps/)
+    expect(await before.textContent()).toMatch(/monitor-at-chair \(synthetic demo\)/)
+    expect(await page.getByTestId('follow-up-comparison').textContent()).not.toMatch(/Choose two different measurements/)
     await page.screenshot({ path: join(screenshotDir(), 'demo-listener-plan.png'), fullPage: true })
     await context.close()
   })
@@ -97,6 +121,24 @@ describe('the demo scenario — every seeded case is consistent with its status'
     await page.getByTestId('snippet-title').locator('input').fill('Broken placeholder')
     await expect.poll(() => page.getByTestId('snippet-placeholder-problem').textContent()).toMatch(/\{\{listener\.first\}\} is not a placeholder; use one of .*\{\{listener\.name\}\}/)
     expect(await page.getByTestId('snippet-title-save').isDisabled()).toBe(true)
+    // the valid placeholders are listed beside the editor, open while the words are refused
+    const list = page.getByTestId('snippet-placeholders')
+    expect(await list.getAttribute('open')).not.toBeNull()
+    for (const name of Object.keys(snippetPlaceholders)) expect(await list.textContent()).toContain(`{{${name}}}`)
+    // with known placeholders the snippet is kept, and inserting it fills them with each unit once
+    await page.keyboard.press('Escape')
+    await page.getByTestId('snippet-title-save').waitFor({ state: 'hidden' })
+    await text.fill('Hi {{listener.name}}, the mode at {{room.firstAxialHz}} Hz matters.')
+    await page.getByTestId('snippet-picker').click()
+    await page.getByTestId('snippet-save').click()
+    await page.getByTestId('snippet-title').locator('input').fill('Mode at the chair')
+    expect(await page.getByTestId('snippet-placeholder-problem').count()).toBe(0)
+    await page.getByTestId('snippet-title-save').click()
+    await expect.poll(() => page.getByTestId('snippet-kept').textContent()).toMatch(/Kept as your snippet "Mode at the chair"/)
+    await text.fill('')
+    await page.getByTestId('snippet-picker').click()
+    await page.getByTestId('snippet-item').filter({ hasText: 'Mode at the chair' }).click()
+    await expect.poll(() => text.inputValue()).toMatch(/^Hi Jonas Mbeki, the mode at \d+(\.\d)? Hz matters\.$/)
     await context.close()
   })
 })

@@ -117,4 +117,31 @@ describe('the desk confirms each action where the eye is', () => {
     void colleague
     await context.close()
   }, 180_000)
+
+  it("a supervisor's reassignment from the dashboard is confirmed in the case's own row, at desktop and phone width", async () => {
+    const supervisor = await makeUser('supervisor', 'Henrike Oyelowo')
+    const advisor = await makeUser('advisor', 'Lazarus Quennell')
+    const title = `Overdue case ${randomUUID().slice(0, 6)}`
+    const { listener, c } = await listenerCase(title)
+    await updateCase(listener, c.id, { status: 'submitted', fromStatus: 'draft' })
+    // submitted three days ago, never answered: past any first-response target of a day or two
+    const { db } = await import('../../server/db/sequelize')
+    await db().query(`UPDATE case_events SET created_at = created_at - interval '3 days' WHERE case_id = $1`, { bind: [c.id] })
+    for (const viewport of [{ width: 1280, height: 900 }, { width: 390, height: 844 }]) {
+      const context = await app.browser.newContext({ viewport, isMobile: viewport.width < 600, hasTouch: viewport.width < 600 })
+      const page = await signInAs(context, app.server.url, supervisor.email, supervisor.password)
+      page.setDefaultTimeout(30_000)
+      await page.waitForURL(/\/dashboard$/)
+      const row = page.getByTestId(`breach-${c.id}`)
+      await row.waitFor()
+      await row.getByTestId('reassign-select').click()
+      await page.getByRole('option', { name: viewport.width < 600 ? /Back to the queue/ : /Lazarus Quennell/ }).click()
+      await row.getByTestId('reassign-button').click()
+      await expect.poll(() => row.getByTestId('reassign-confirm').textContent(), { timeout: 15_000 }).toMatch(viewport.width < 600 ? /Back in the queue for anyone to take/ : /Handed to Lazarus Quennell/)
+      expect(await row.getByTestId('reassign-confirm').isVisible()).toBe(true)
+      await page.screenshot({ path: join(screenshotDir(), `dashboard-reassigned-${viewport.width}.png`) })
+      await context.close()
+    }
+    void advisor
+  }, 180_000)
 })

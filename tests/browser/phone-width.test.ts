@@ -1,17 +1,11 @@
 import { describe, expect, it } from 'vitest'
 import type { Page } from 'playwright-core'
-import { signInAs, useProduct } from '../helpers/browser'
-import { makeUser } from '../helpers/api'
-import { createRoom } from '../../server/services/rooms'
-import { createCase, updateCase } from '../../server/services/cases'
+import { PHONE, signInAs, useProduct } from '../helpers/browser'
+import { caseInReview } from '../helpers/service-cases'
 import { createPlan } from '../../server/services/plans'
-import { demoRooms } from '../../server/seed/rooms'
 import { demoPlanBody } from '../../server/seed/demo-plan'
-import { roomSchema } from '../../shared/schemas/room'
 
 const app = useProduct({ timeout: 120_000 })
-
-const PHONE = { width: 390, height: 844 }
 
 /** The page's width and, when it is too wide, the widest elements (to say what pushes it out). */
 async function width(page: Page): Promise<{ scrollWidth: number; culprits: string[] }> {
@@ -30,29 +24,35 @@ async function width(page: Page): Promise<{ scrollWidth: number; culprits: strin
 }
 
 describe('on a 390 px phone no page scrolls sideways', () => {
-  it('queue, workspace, plan editor, dashboard, room editor, case page and team fit the screen', async () => {
-    const listener = await makeUser('listener', 'Philippa Ahenkorah')
-    const advisor = await makeUser('advisor', 'Tobiah Marchetti')
-    const supervisor = await makeUser('supervisor', 'Gwendolyn Osei')
-    const room = await createRoom(listener, roomSchema.parse({ ...demoRooms.smallStudio, name: 'Spare bedroom studio' }))
-    const c = await createCase(listener, { roomId: room.id, title: 'Narrow screen case', description: 'The bass **booms** at the desk.' })
-    await updateCase(listener, c.id, { status: 'submitted', fromStatus: 'draft' })
-    await updateCase(advisor, c.id, { status: 'in_review', fromStatus: 'submitted', assigneeId: advisor.id })
+  it('every page of every role fits the screen: sign-in, cases, rooms, queue, workspace, plan editor and report, dashboard, team, audit, mailbox, account', async () => {
+    const { listener, advisor, supervisor, room, c } = await caseInReview({
+      names: { listener: 'Philippa Ahenkorah', advisor: 'Tobiah Marchetti', supervisor: 'Gwendolyn Osei' },
+      room: 'smallStudio',
+      roomName: 'Spare bedroom studio',
+      title: 'Narrow screen case',
+      description: 'The bass **booms** at the desk.',
+      assign: true,
+    })
     await createPlan(advisor, c.id, demoPlanBody(room.room, 'Corner traps first.'))
 
-    const visits: Array<[typeof listener, string[]]> = [
-      [listener, [`/cases/${c.id}`, `/rooms/${room.id}`]],
-      [advisor, ['/queue', `/desk/cases/${c.id}`, `/desk/cases/${c.id}/plan`]],
-      [supervisor, ['/dashboard', '/team']],
+    const visits: Array<[typeof listener | null, string[]]> = [
+      [null, ['/sign-in', '/sign-up', '/forgot-password', '/no-such-page']],
+      [listener, [`/cases/${c.id}`, `/rooms/${room.id}`, '/cases', '/cases/new', '/rooms', '/rooms/new', '/guide/measuring', '/account']],
+      [advisor, ['/queue', `/desk/cases/${c.id}`, `/desk/cases/${c.id}/plan`, `/cases/${c.id}/plans/1/report`, '/account']],
+      [supervisor, ['/dashboard', '/team', '/team/audit', '/mailbox', '/queue']],
     ]
     const wide: Record<string, unknown> = {}
     for (const [who, paths] of visits) {
       const context = await app.browser.newContext({ viewport: PHONE, isMobile: true, hasTouch: true })
-      const page = await signInAs(context, app.server.url, who.email, who.password)
-      await page.waitForURL((u) => !u.pathname.startsWith('/sign-in'))
+      const page = who ? await signInAs(context, app.server.url, who.email, who.password) : await context.newPage()
+      if (who) await page.waitForURL((u) => !u.pathname.startsWith('/sign-in'))
       for (const path of paths) {
         await page.goto(`${app.server.url}${path}`, { waitUntil: 'networkidle' })
         await page.locator('main').first().waitFor()
+        // the page asked for, not a redirect or the not-found page (which would fit trivially)
+        expect(new URL(page.url()).pathname, path).toBe(path)
+        if (path !== '/no-such-page') expect(await page.getByText('There is nothing at this address').count(), path).toBe(0)
+        if (path.endsWith('/report')) await page.getByTestId('plan-steps').waitFor()
         await page.waitForTimeout(1500) // charts and drawings lay out after the data arrives
         const w = await width(page)
         if (w.scrollWidth > PHONE.width) wide[path.replace(c.id, ':case').replace(room.id, ':room')] = w

@@ -85,6 +85,16 @@ describe('the plan editor', () => {
     expect(await lp.getByTestId('plan-cautions').textContent()).toMatch(/fixings rated for the load/)
     expect(await lp.getByTestId('plan-shopping-total').textContent()).toMatch(/m²/)
     await lp.screenshot({ path: join(screenshotDir(), 'plan-report.png'), fullPage: true })
+    // printed, the page is the plan alone: no Back/Print/PDF bar, no app bar or navigation drawer
+    expect(await lp.getByTestId('plan-report-bar').isVisible()).toBe(true)
+    await lp.emulateMedia({ media: 'print' })
+    expect(await lp.getByTestId('plan-report-bar').isVisible()).toBe(false)
+    expect(await lp.getByTestId('plan-print').isVisible()).toBe(false)
+    const chromeShown = await lp.locator('.v-app-bar, .v-navigation-drawer, nav').evaluateAll((els) =>
+      els.filter((e) => getComputedStyle(e).display !== 'none' && e.getBoundingClientRect().height > 0).map((e) => e.className))
+    expect(chromeShown).toEqual([])
+    expect(await lp.getByTestId('plan-steps').isVisible()).toBe(true)
+    await lp.screenshot({ path: join(screenshotDir(), 'plan-report-print.png'), fullPage: true })
     await lc.close()
   }, 90_000)
 })

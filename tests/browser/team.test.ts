@@ -69,7 +69,10 @@ describe('the supervisor manages the team in the browser', () => {
     await again.goto(`${app.server.url}/welcome/${token}`)
     await expect.poll(() => again.getByTestId('invitation-gone').textContent()).toMatch(/already been used/)
 
-    await page.reload()
+    // back on the supervisor's window (no reload): the used invitation has left the list, the new member is in it
+    await page.bringToFront()
+    await page.evaluate(() => window.dispatchEvent(new Event('focus')))
+    await expect.poll(() => page.getByTestId(`invitation-${email}`).count(), { timeout: 15_000 }).toBe(0)
     await expect.poll(() => page.getByTestId(`member-${email}`).textContent()).toMatch(/Saskia Oyelaran/)
     await invitee.close()
     await context.close()

@@ -2,6 +2,7 @@ import { describe, expect, it } from 'vitest'
 import type { Page } from 'playwright-core'
 import { signInAs, useProduct } from '../helpers/browser'
 import { makeUser } from '../helpers/api'
+import { caseInReview } from '../helpers/service-cases'
 import { createRoom } from '../../server/services/rooms'
 import { createCase, updateCase } from '../../server/services/cases'
 import { demoRooms } from '../../server/seed/rooms'
@@ -86,13 +87,13 @@ async function openAs(who: { email: string; password: string }, path: string, ti
 
 describe('one source of words: the same flag and status read the same on every page', () => {
   it('queue, workspace and dashboard name the flag and the status alike; the listener reads "What you hear"; dates are in the browser\'s zone', async () => {
-    const listener = await makeUser('listener', 'Wendeline Quillfeather')
-    const advisor = await makeUser('advisor', 'Casimir Oyelaran')
-    const supervisor = await makeUser('supervisor', 'Rosalind Achterberg')
-    const room = await createRoom(listener, roomSchema.parse({ ...demoRooms.square, name: 'Square den' }))
-    const c = await createCase(listener, { roomId: room.id, title: 'Quillfeather square den boom', description: 'The bass **booms** on the sofa.' })
-    await updateCase(listener, c.id, { status: 'submitted', fromStatus: 'draft' })
-    await updateCase(advisor, c.id, { status: 'in_review', fromStatus: 'submitted' })
+    const { listener, advisor, supervisor, c } = await caseInReview({
+      names: { listener: 'Wendeline Quillfeather', advisor: 'Casimir Oyelaran', supervisor: 'Rosalind Achterberg' },
+      room: 'square',
+      roomName: 'Square den',
+      title: 'Quillfeather square den boom',
+      description: 'The bass **booms** on the sofa.',
+    })
     const inReview = caseStatusLabels.in_review
     // Pacific/Auckland is UTC+13 in December and UTC+12 in June (IANA tz database): never the same wall clock as UTC
     const timezoneId = 'Pacific/Auckland'
@@ -132,6 +133,10 @@ describe('one source of words: the same flag and status read the same on every p
     expect((await row.getByTestId('case-status').textContent())?.trim()).toBe(inReview)
     await row.getByTestId('queue-flags').hover()
     await expect.poll(() => qPage.locator('.v-overlay__content').filter({ hasText: square }).count(), { timeout: 15_000 }).toBeGreaterThan(0)
+    // the queue's flag filter offers the flag under the same name
+    await qPage.getByTestId('queue-flag').click()
+    await expect.poll(() => qPage.getByRole('option', { name: square, exact: true }).count(), { timeout: 15_000 }).toBe(1)
+    await qPage.keyboard.press('Escape')
     await closeQ()
 
     // the supervisor's dashboard: the flag and the status tables use the same names

@@ -5,8 +5,20 @@ import { mkdirSync } from 'node:fs'
 import { startServer, type RunningServer } from '../../server/server'
 import { freePort } from '../../server/dev/cluster'
 import type { FakeSmtp } from '../../server/mail/fake-smtp'
+import type { Role } from '../../shared/schemas/auth'
 
 export { waitFor } from './wait'
+
+/** The window sizes the browser tests look at (CSS px): a desktop, and a phone 390 px wide. */
+export const DESKTOP = { width: 1280, height: 900 }
+export const PHONE = { width: 390, height: 844 }
+
+/** The demo scenario's person of each role (server/seed), as the tests that run on it sign in. */
+export const DEMO_EMAILS: Record<Role, string> = {
+  listener: 'listener@roomwright.test',
+  advisor: 'advisor@roomwright.test',
+  supervisor: 'supervisor@roomwright.test',
+}
 
 /** Debian's chromium, started headless with the flags this machine needs (no background networking). */
 export async function launchBrowser(): Promise<Browser> {

@@ -1,6 +1,6 @@
 import { DataTypes, Model, type CreationOptional, type ForeignKey, type InferAttributes, type InferCreationAttributes, type NonAttribute, type Sequelize } from 'sequelize'
 import type { UserModel } from './user'
-import { appUuidKey, maybeAt, optional, required, serialKey, stampNow } from '../columns'
+import { appUuidKey, maybeAt, optional, personColumns, required, serialKey, stampNow } from '../columns'
 
 /** A one-time invitation to the team; only a SHA-256 of the token is kept. */
 export class TeamInvitationModel extends Model<InferAttributes<TeamInvitationModel>, InferCreationAttributes<TeamInvitationModel>> {
@@ -53,9 +53,7 @@ export function initTeam(sequelize: Sequelize) {
   TeamInvitationModel.init(
     {
       id: appUuidKey(),
-      email: required(DataTypes.STRING(254)),
-      name: required(DataTypes.STRING(120)),
-      role: required(DataTypes.ENUM('listener', 'advisor', 'supervisor')),
+      ...personColumns(),
       tokenHash: { type: DataTypes.CHAR(64), allowNull: false, unique: true },
       createdAt: stampNow(),
       expiresAt: required(DataTypes.DATE),

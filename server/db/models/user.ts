@@ -1,7 +1,7 @@
 import { DataTypes, Model, type InferAttributes, type InferCreationAttributes, type CreationOptional, type Sequelize } from 'sequelize'
 import type { Role } from '../../../shared/schemas/auth'
 import { models } from './index'
-import { appUuidKey, optional, required } from '../columns'
+import { appUuidKey, optional, personColumns, required } from '../columns'
 
 export class UserModel extends Model<InferAttributes<UserModel>, InferCreationAttributes<UserModel>> {
   declare id: CreationOptional<string>
@@ -20,9 +20,7 @@ export function initUser(sequelize: Sequelize) {
   UserModel.init(
     {
       id: appUuidKey(),
-      email: required(DataTypes.STRING(254)),
-      name: required(DataTypes.STRING(120)),
-      role: required(DataTypes.ENUM('listener', 'advisor', 'supervisor')),
+      ...personColumns(),
       passwordHash: optional(DataTypes.STRING(100)),
       active: required(DataTypes.BOOLEAN, true),
       units: required(DataTypes.ENUM('metric', 'imperial'), 'metric'),

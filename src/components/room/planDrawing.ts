@@ -42,6 +42,16 @@ export const TOP_PAD = { top: 44, right: 30, bottom: 30, left: 44 }
 /** Elevations share one scale so heights compare between them. */
 export const ELEVATION_PAD = { top: 18, right: 14, bottom: 30, left: 40 }
 
+/**
+ * The svg of a drawing `across` × `down` metres at `scale` px per metre inside `pad`: its size in px, and
+ * the attributes (`viewBox`, `width`, `height`) that set it.
+ */
+export function drawingBox(across: number, down: number, scale: number, pad: typeof TOP_PAD) {
+  const w = across * scale + pad.left + pad.right
+  const h = down * scale + pad.top + pad.bottom
+  return { w, h, size: { viewBox: `0 0 ${w} ${h}`, width: w, height: h } }
+}
+
 export function topScale(room: { length: number; width: number }, width: number, maxHeight: number): number {
   const P = TOP_PAD
   return Math.max(10, Math.min((width - P.left - P.right) / room.width, (maxHeight - P.top - P.bottom) / room.length))

@@ -59,6 +59,18 @@ describe('setupFlags', () => {
     const away = setupFlags({ ...good, openings: [{ wall: 'left', kind: 'window', from: 4.6, to: 5.6, bottom: 0.8, top: 2.0 }] })
     expect(ids(away)).not.toContain('opening-in-reflection-zone')
   })
+  it('opening-in-reflection-zone names each opening once, with the speakers whose reflection it takes', () => {
+    // the right speaker (1.1, 3.3) reflects off the left wall at x = 1.1 + 2.45·3.3/5.45 ≈ 2.58 m: one window from 1.4 to 3.0 m takes both
+    const both = setupFlags({ ...good, openings: [{ wall: 'left', kind: 'window', from: 1.4, to: 3.0, bottom: 0.8, top: 2.0 }] }).find((x) => x.id === 'opening-in-reflection-zone')!
+    expect(both.message.match(/the window on the left wall/g)).toHaveLength(1)
+    expect(both.message).toMatch(/from the window on the left wall \(both speakers\)\./)
+    // a window catching only the left speaker's reflection, and a door on the right wall catching both
+    const two = setupFlags({ ...good, openings: [
+      { wall: 'left', kind: 'window', from: 1.4, to: 2.2, bottom: 0.8, top: 2.0 },
+      { wall: 'right', kind: 'door', from: 1.4, to: 3.0, bottom: 0, top: 2.0 },
+    ] }).find((x) => x.id === 'opening-in-reflection-zone')!
+    expect(two.message).toMatch(/from the window on the left wall \(the left speaker\), the door on the right wall \(both speakers\)\./)
+  })
   it('coincident-low-modes and dimension-multiples: a 6 × 3 × 3 m room', () => {
     const f = setupFlags({ room: { length: 6, width: 3, height: 3 }, speakers: [{ x: 0.8, y: 0.8, z: 1 }, { x: 0.8, y: 2.2, z: 1 }], seats: [{ x: 3.7, y: 1.5, z: 1.1 }] })
     expect(ids(f)).toContain('coincident-low-modes')

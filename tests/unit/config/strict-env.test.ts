@@ -13,6 +13,9 @@ const NUMBERS: { name: string; min: number; max: number }[] = [
   { name: 'SIGN_IN_FAILURES_PER_ACCOUNT', min: 1, max: 1_000_000 },
   { name: 'SIGN_IN_WINDOW_MINUTES', min: 1, max: 1440 },
   { name: 'DB_STATEMENT_TIMEOUT_MS', min: 1000, max: 3_600_000 },
+  { name: 'SIGN_IN_BACKOFF_MAX_MS', min: 0, max: 60_000 },
+  { name: 'USER_RATE_WINDOW_SECONDS', min: 1, max: 86_400 },
+  ...['MESSAGE', 'UPLOAD', 'PREVIEW', 'SUBWOOFER', 'SEARCH', 'ROOM_SAVE', 'REPORT'].map((a) => ({ name: `${a}_RATE_LIMIT`, min: 1, max: 10_000_000 })),
 ]
 
 describe('boolean settings are read strictly (true/false, 1/0, yes/no)', () => {

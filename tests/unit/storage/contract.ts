@@ -47,6 +47,11 @@ export function storageContract(name: string, make: () => Storage): void {
   describe(`${name} storage driver — shared contract`, () => {
     let n = 0
     const key = (ext = 'bin') => `contract/${name}/${process.pid}-${Date.now()}-${n++}.${ext}`
+    /** A put into `s` under `k` fed by a stream that the test writes to, ends or breaks. */
+    const streamedPut = (s = make(), k = key()) => {
+      const feed = new PassThrough()
+      return { s, k, feed, put: s.put(k, feed) }
+    }
 
     it('stores a buffer and gives the same bytes back as a stream and as a buffer', async () => {
       const s = make()
@@ -118,8 +123,7 @@ export function storageContract(name: string, make: () => Storage): void {
       const k = key()
       const previous = Buffer.from('the object that was there before')
       await s.put(k, previous)
-      const failing = new PassThrough()
-      const put = s.put(k, failing)
+      const { feed: failing, put } = streamedPut(s, k)
       failing.write(noise(100_000, 9))
       setTimeout(() => failing.destroy(new Error('client went away')), 20)
       await expect(put).rejects.toThrow()
@@ -127,20 +131,14 @@ export function storageContract(name: string, make: () => Storage): void {
     })
 
     it('a stream that fails before the driver starts reading rejects the put (no uncaught error)', async () => {
-      const s = make()
-      const k = key()
-      const failing = new PassThrough()
-      const put = s.put(k, failing)
+      const { s, k, feed: failing, put } = streamedPut()
       failing.destroy(new Error('client went away at once'))
       await expect(put).rejects.toThrow()
       expect(await s.exists(k)).toBe(false)
     })
 
     it('a failed put of a new key leaves nothing under that key', async () => {
-      const s = make()
-      const k = key()
-      const failing = new PassThrough()
-      const put = s.put(k, failing)
+      const { s, k, feed: failing, put } = streamedPut()
       failing.write(noise(50_000, 11))
       setTimeout(() => failing.destroy(new Error('disk quota')), 20)
       await expect(put).rejects.toThrow()
@@ -148,10 +146,7 @@ export function storageContract(name: string, make: () => Storage): void {
     })
 
     it('while a streamed put is still in flight, readers do not see the object', async () => {
-      const s = make()
-      const k = key()
-      const slow = new PassThrough()
-      const put = s.put(k, slow)
+      const { s, k, feed: slow, put } = streamedPut()
       slow.write(noise(200_000, 5))
       await new Promise((r) => setTimeout(r, 50))
       expect(await s.exists(k)).toBe(false)

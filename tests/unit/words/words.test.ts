@@ -5,7 +5,7 @@ import { SETUP_FLAG_IDS } from '../../../shared/acoustics/setup-flags'
 import { caseStatuses } from '../../../shared/schemas/case'
 import {
   accountStory, beforeAfterHint, caseAnswerWords, caseStatusLabels, checksBreakdown, checksLabel, checksToFix, flagLabel, flagLabels, flagTitle,
-  formatAgo, formatDate, formatDateTime, listenerNextStep, openStatuses, severityLabels, statusEmailWords,
+  formatAgo, formatDate, formatDateTime, listenerNextStep, measurementHint, openStatuses, severityLabels, statusEmailWords,
 } from '../../../shared/words'
 
 const root = resolve(__dirname, '../../..')
@@ -126,6 +126,30 @@ describe('who a page speaks to', () => {
     expect(hints[0]).toMatch(/Add a measurement/)
     expect(hints[1]).toContain('2 measurements added')
     expect(hints[2]).toMatch(/^One measurement analysed/)
+  })
+})
+
+describe("the listener's measurement hint", () => {
+  const wav = (name: string, channels?: string[]) => ({ name, status: channels ? ('done' as const) : ('queued' as const), kind: channels ? ('impulse-response' as const) : undefined, channels })
+  it('invites first, then says what was received and what is still worth sending (the measuring guide: each speaker alone, as WAV)', () => {
+    expect(measurementHint([])).toMatchObject({ state: 'none', received: null })
+    const fr = measurementHint([{ name: 'seat.txt', status: 'done', kind: 'frequency-response' }])
+    expect(fr).toMatchObject({ state: 'partial', received: 'Received: 1 measurement (1 analysed).' })
+    expect(fr.next).toMatch(/impulse response as WAV/)
+    expect(measurementHint([wav('seat.wav')]).state).toBe('waiting')
+    expect(measurementHint([wav('seat_left.wav', ['mono'])]).next).toMatch(/the right speaker alone/)
+    expect(measurementHint([wav('seat.wav', ['mono'])]).next).toMatch(/each speaker alone, left and then right/)
+    expect(measurementHint([wav('seat-left.wav', ['mono']), wav('seat-right.wav', ['mono'])]).state).toBe('enough')
+    expect(measurementHint([wav('seat.wav', ['left', 'right'])]).state).toBe('enough')
+    const failed = measurementHint([{ name: 'x.wav', status: 'failed' }])
+    expect(failed).toMatchObject({ state: 'unreadable', received: 'Received: 1 measurement (1 could not be read).' })
+  })
+  it('speaks to the listener in the second person', () => {
+    const all = [
+      measurementHint([]), measurementHint([wav('a.wav')]), measurementHint([wav('a.wav', ['mono'])]), measurementHint([wav('a_left.wav', ['mono'])]),
+      measurementHint([wav('a.wav', ['left', 'right'])]), measurementHint([{ name: 'a.txt', status: 'done', kind: 'frequency-response' }]), measurementHint([{ name: 'a.wav', status: 'failed' }]),
+    ]
+    for (const h of all) expect(`${h.received ?? ''} ${h.next}`).not.toMatch(/\b(they|them|their|the listener)\b/i)
   })
 })
 
