@@ -127,7 +127,7 @@ async function measureOnce(browser: Browser, state: Awaited<ReturnType<BrowserCo
     const tti = Math.max(readyAt, marks.longTaskEnd, marks.lastAnswer)
     const { metrics } = (await cdp.send('Performance.getMetrics')) as { metrics: { name: string; value: number }[] }
     const metric = (n: string) => (metrics.find((m) => m.name === n)?.value ?? NaN) * 1000
-    return { tti, readyAt, requests, kB: marks.bytes / 1024, taskMs: metric('TaskDuration'), scriptMs: metric('ScriptDuration') }
+    return { tti, readyAt, requests, kB: marks.bytes / 1024, taskMs: metric('TaskDuration'), scriptMs: metric('ScriptDuration'), styleMs: metric('RecalcStyleDuration'), layoutMs: metric('LayoutDuration') }
   } finally {
     await context.close()
   }
@@ -188,17 +188,19 @@ export async function run(): Promise<Figure[]> {
         for (const [j, b] of baselines.entries()) before[j].push(await measureOnce(browser, states.get(p.who)!, b.server.url, p))
       }
       console.error(`[bench] pages: ${p.name}: ${runs.map((r) => r.tti.toFixed(0)).join(', ')} ms${baselines.map((b, j) => `; ${b.dir} ${before[j].map((r) => r.tti.toFixed(0)).join(', ')} ms`).join('')}`)
-      for (const [j, b] of baselines.entries()) {
-        figures.push({ name: `${p.name}: BASELINE ${b.dir}, time to interactive, median`, value: med(before[j].map((r) => r.tti)), unit: 'ms' })
-        figures.push({ name: `${p.name}: BASELINE ${b.dir}, main-thread work`, value: med(before[j].map((r) => r.taskMs)), unit: 'ms' })
-        figures.push({ name: `${p.name}: BASELINE ${b.dir}, requests to our server`, value: med(before[j].map((r) => r.requests)), unit: 'count' })
+      type Run = Awaited<ReturnType<typeof measureOnce>>
+      const push = (label: string, xs: Run[], target?: string) => {
+        figures.push({ name: `${p.name}: ${label}time to interactive, median of ${RUNS} cold loads`, value: med(xs.map((r) => r.tti)), unit: 'ms', target })
+        figures.push({ name: `${p.name}: ${label}ready element visible, median`, value: med(xs.map((r) => r.readyAt)), unit: 'ms' })
+        figures.push({ name: `${p.name}: ${label}main-thread work (all tasks)`, value: med(xs.map((r) => r.taskMs)), unit: 'ms' })
+        figures.push({ name: `${p.name}: ${label}main-thread script`, value: med(xs.map((r) => r.scriptMs)), unit: 'ms' })
+        figures.push({ name: `${p.name}: ${label}main-thread style recalculation`, value: med(xs.map((r) => r.styleMs)), unit: 'ms' })
+        figures.push({ name: `${p.name}: ${label}main-thread layout`, value: med(xs.map((r) => r.layoutMs)), unit: 'ms' })
+        figures.push({ name: `${p.name}: ${label}requests to our server`, value: med(xs.map((r) => r.requests)), unit: 'count' })
+        figures.push({ name: `${p.name}: ${label}bytes transferred`, value: med(xs.map((r) => r.kB)), unit: 'kB' })
       }
-      figures.push({ name: `${p.name}: time to interactive, median of ${RUNS} cold loads`, value: med(runs.map((r) => r.tti)), unit: 'ms', target: TARGET })
-      figures.push({ name: `${p.name}: ready element visible, median`, value: med(runs.map((r) => r.readyAt)), unit: 'ms' })
-      figures.push({ name: `${p.name}: main-thread work (all tasks)`, value: med(runs.map((r) => r.taskMs)), unit: 'ms' })
-      figures.push({ name: `${p.name}: main-thread script`, value: med(runs.map((r) => r.scriptMs)), unit: 'ms' })
-      figures.push({ name: `${p.name}: requests to our server`, value: med(runs.map((r) => r.requests)), unit: 'count' })
-      figures.push({ name: `${p.name}: bytes transferred`, value: med(runs.map((r) => r.kB)), unit: 'kB' })
+      for (const [j, b] of baselines.entries()) push(`BASELINE ${b.dir}, `, before[j])
+      push('', runs, TARGET)
     }
   } finally {
     await browser.close()

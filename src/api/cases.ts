@@ -42,7 +42,7 @@ export interface StaffUser {
   active: boolean
 }
 
-const casePath = (id: string) => `/api/cases/${encodeURIComponent(id)}`
+export const casePath = (id: string) => `/api/cases/${encodeURIComponent(id)}`
 
 /** The signed-in listener's own cases, newest activity first as the server orders them. */
 export async function listMyCases(): Promise<CaseSummary[]> {

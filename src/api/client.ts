@@ -120,22 +120,57 @@ async function readBody<T>(response: Response, schema?: ZodType<T>): Promise<T> 
   return checked.data
 }
 
+/**
+ * GET answers asked for before anyone needs them: a page's first data, requested by the router while the
+ * page's own code is still on its way (./early.ts), so the two no longer come one after the other. The
+ * first GET of the same URL takes the answer (once). What is not taken within EARLY_MS is not used, and a new
+ * navigation, any request that changes something, or a live event (../stores/live.ts) drops them all, so an
+ * answer that may predate a change is never shown.
+ */
+const early = new Map<string, { at: number; answer: Promise<Response> }>()
+const EARLY_MS = 5000
+
+/** Starts the GETs of these URLs now; the page's own requests for them pick the answers up. */
+export function fetchEarly(urls: readonly string[]): void {
+  const now = Date.now()
+  for (const url of urls) {
+    if (early.has(url)) continue
+    const answer = transmit(url, { method: 'GET', headers: { Accept: 'application/json' } })
+    answer.catch(() => {}) // an answer nobody takes fails quietly; the page's own request reports it
+    early.set(url, { at: now, answer })
+  }
+}
+
+/** Drops the early answers nobody took (a new navigation, or a change made on the server). */
+export function forgetEarly(): void {
+  early.clear()
+}
+
+function takeEarly(url: string): Promise<Response> | undefined {
+  const entry = early.get(url)
+  if (!entry) return undefined
+  early.delete(url)
+  return Date.now() - entry.at <= EARLY_MS ? entry.answer : undefined
+}
+
 /** The one way the client talks to the server. Components call the typed functions in src/api/, not this. */
 export async function request<T = unknown>(method: HttpMethod, path: string, options: RequestOptions<T> = {}): Promise<T> {
   const isForm = typeof FormData !== 'undefined' && options.body instanceof FormData
   const url = urlFor(path, options.query)
+  if (changesState(method)) forgetEarly()
 
   for (let attempt = 1; ; attempt++) {
     const headers: Record<string, string> = { Accept: 'application/json' }
     if (options.body !== undefined && !isForm) headers['Content-Type'] = 'application/json'
     if (changesState(method)) headers['X-CSRF-Token'] = await currentCsrfToken()
 
-    const response = await transmit(url, {
+    const taken = method === 'GET' && attempt === 1 && !options.signal ? takeEarly(url) : undefined
+    const response = await (taken ?? transmit(url, {
       method,
       headers,
       body: options.body === undefined ? undefined : isForm ? (options.body as FormData) : JSON.stringify(options.body),
       signal: options.signal,
-    })
+    }))
     if (response.ok) return readBody(response, options.schema)
 
     const error = await errorFrom(response)
@@ -187,6 +222,7 @@ function sendForm(url: string, formData: FormData, token: string, options: Uploa
  * handling and error shape as `request`.
  */
 export async function upload<T = unknown>(path: string, formData: FormData, options: UploadOptions<T> = {}): Promise<T> {
+  forgetEarly()
   for (let attempt = 1; ; attempt++) {
     const { status, text } = await sendForm(path, formData, await currentCsrfToken(), options as UploadOptions<unknown>)
     if (status < 200 || status > 599) throw new ApiRequestError(0, 'network', 'The upload did not reach Roomwright. Check your connection and try again.')

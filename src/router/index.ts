@@ -1,6 +1,8 @@
 import { createRouter, createWebHistory, type RouteLocationNormalized } from 'vue-router'
 import { useAuthStore } from '../stores/auth'
 import { buildRoutes, homeRouteFor, named, navigationFor } from './routes'
+import { earlyData } from './early-data'
+import { fetchEarly, forgetEarly } from '../api/client'
 import type { Role } from '../../shared/schemas/auth'
 
 export { homeRouteFor, named, safeRedirect, routeNames, type RouteName } from './routes'
@@ -34,6 +36,9 @@ router.beforeEach(async (to) => {
   if (to.meta.public) return true
   if (!auth.user) return { name: 'sign-in', query: { redirect: to.fullPath } }
   if (to.meta.roles && !to.meta.roles.includes(auth.user.role)) return named(homeRouteFor(auth.user.role))
+  // the page's first data is asked for now, beside its code, not after the page has mounted
+  forgetEarly()
+  fetchEarly(earlyData(to))
   return true
 })
 

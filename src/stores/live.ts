@@ -4,6 +4,7 @@ import { computed, reactive, ref, watch } from 'vue'
 import type { CaseEvent } from '../../shared/schemas/case'
 import type { Role } from '../../shared/schemas/auth'
 import { useAuthStore } from './auth'
+import { forgetEarly } from '../api/client'
 
 export interface LiveEvents {
   'case.event': { caseId: string; seq: number; kind: string }
@@ -96,6 +97,8 @@ export const useLiveStore = defineStore('live', () => {
     })
     for (const name of ['case.event', 'case.message', 'case.updated', 'case.analysis', 'queue.changed'] as const) {
       socket.on(name, (payload: LiveEvents[typeof name]) => {
+        // something changed on the server: an answer asked for early may predate it, so none is taken
+        forgetEarly()
         if (name === 'case.event' && joined.has(payload.caseId)) {
           const seq = (payload as LiveEvents['case.event']).seq
           const last = joined.get(payload.caseId)
